@@ -1,0 +1,98 @@
+import { isRouteErrorResponse, Links, Meta, NavLink, Outlet, Scripts, ScrollRestoration } from "react-router";
+import type { Route } from "./+types/root";
+import { databaseMiddleware } from "./db/orm.server";
+import { Mark } from "./components/Mark";
+import "./app.css";
+
+export const middleware: Route.MiddlewareFunction[] = [databaseMiddleware];
+
+export const meta: Route.MetaFunction = () => [{ title: "Visitwort" }];
+
+const navigation = [
+  { to: "/checklist", label: "Checklist" },
+  { to: "/cautions", label: "Cautions" },
+];
+
+export function Layout({ children }: { children: React.ReactNode }) {
+  return (
+    <html lang="en">
+      <head>
+        <meta charSet="utf-8" />
+        <meta name="viewport" content="width=device-width, initial-scale=1" />
+        <meta name="theme-color" content="#3f5e3a" />
+        <Meta />
+        <Links />
+      </head>
+      <body className="min-h-dvh flex flex-col bg-paper text-ink antialiased">
+        <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:bg-paper focus:p-2">
+          Skip to content
+        </a>
+        <header className="border-b border-ink/10 bg-paper-deep/60">
+          <div className="mx-auto flex max-w-5xl flex-wrap items-center gap-x-6 gap-y-1 px-4 py-3">
+            <a href="/" className="flex items-center gap-2 text-ink no-underline" aria-label="Visitwort, home">
+              <Mark className="h-8 w-8" />
+              <span className="font-display text-2xl font-semibold tracking-tight">Visitwort</span>
+            </a>
+            <nav aria-label="Main" className="-mx-2 flex flex-1 gap-1 overflow-x-auto">
+              {navigation.map((item) => (
+                <NavLink
+                  key={item.to}
+                  to={item.to}
+                  className={({ isActive }) =>
+                    `whitespace-nowrap rounded-md px-3 py-2.5 text-[0.95rem] font-medium no-underline ${
+                      isActive ? "bg-moss text-paper" : "text-ink hover:bg-ink/5"
+                    }`
+                  }
+                >
+                  {item.label}
+                </NavLink>
+              ))}
+            </nav>
+          </div>
+        </header>
+        <main id="main" className="mx-auto w-full max-w-5xl flex-1 px-4 py-6">
+          {children}
+        </main>
+        <footer className="border-t border-ink/10 text-sm text-ink-soft">
+          <div className="mx-auto flex max-w-5xl flex-wrap items-center justify-between gap-2 px-4 py-4">
+            <p>
+              Visitwort — flower visits of bumble bees, verified and put to use.
+            </p>
+            <p>
+              <a href="/cautions" className="font-medium">Cautions for the field and for planting</a>
+            </p>
+          </div>
+        </footer>
+        <ScrollRestoration />
+        <Scripts />
+      </body>
+    </html>
+  );
+}
+
+export default function App() {
+  return <Outlet />;
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  let heading = "Something went wrong";
+  let detail = "The page could not be shown. Try again in a moment.";
+  let stack: string | undefined;
+  if (isRouteErrorResponse(error)) {
+    heading = error.status === 404 ? "Not found" : `${error.status} ${error.statusText}`;
+    detail = error.status === 404 ? "There is nothing at this address." : typeof error.data === "string" ? error.data : detail;
+  } else if (import.meta.env.DEV && error instanceof Error) {
+    detail = error.message;
+    stack = error.stack;
+  }
+  return (
+    <section className="space-y-3">
+      <h1 className="text-3xl">{heading}</h1>
+      <p>{detail}</p>
+      {stack && <pre className="overflow-x-auto rounded bg-ink/5 p-3 text-xs">{stack}</pre>}
+      <p>
+        <a href="/">Back to the start page</a>
+      </p>
+    </section>
+  );
+}

@@ -1,0 +1,18 @@
+/** Seeds the checklists (and, later, the demo scenario) into the database chosen by VISITWORT_DB. */
+import { MikroORM } from "@mikro-orm/postgresql";
+import config from "../mikro-orm.config.ts";
+import { seedChecklists } from "../app/db/seed.server.ts";
+import { ChecklistError } from "../app/taxa/checklist-import.server.ts";
+
+const orm = await MikroORM.init(config);
+try {
+  const summary = await seedChecklists(orm.em.fork());
+  console.log(`· seeded checklists: ${summary.plantsCreated} new plant taxa, ${summary.beesCreated} new bee taxa`);
+} catch (error) {
+  if (error instanceof ChecklistError) {
+    console.error(error.message);
+    process.exitCode = 1;
+  } else throw error;
+} finally {
+  await orm.close(true);
+}

@@ -1,0 +1,56 @@
+import path from "node:path";
+import type { Browser } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { launchBrowser, screenshotDir } from "./browser";
+
+let browser: Browser;
+const baseUrl = inject("baseUrl");
+
+beforeAll(async () => {
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+describe("the plant checklist in a browser", () => {
+  it("finds bloodroot from a misspelt common name, on a phone-sized screen", async () => {
+    const page = await browser.newPage({ viewport: { width: 360, height: 780 }, deviceScaleFactor: 2 });
+    await page.goto(`${baseUrl}/checklist`);
+    await expect.poll(() => page.locator("[data-testid=checklist-results] > li").count()).toBeGreaterThanOrEqual(150);
+    await page.screenshot({ path: path.join(screenshotDir, "checklist-360.png") });
+
+    // Wait for hydration: typing before React attaches would be lost.
+    await page.waitForFunction(() => document.querySelector("#checklist-q") && (window as unknown as { __reactRouterRouteModules?: unknown }).__reactRouterRouteModules);
+    await page.getByLabel("Find a plant").pressSequentially("bloodrot", { delay: 20 });
+    const first = page.locator("[data-testid=checklist-results] > li").first();
+    await expect.poll(() => first.textContent()).toContain("Sanguinaria canadensis");
+    expect(page.url()).toContain("q=bloodrot");
+    await page.screenshot({ path: path.join(screenshotDir, "checklist-search-360.png") });
+
+    await first.getByRole("link").click();
+    await page.waitForURL(/\/checklist\/\d+$/);
+    await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toContain("Sanguinaria canadensis");
+    await page.close();
+  });
+
+  it("filters on the server when scripts have not run (a search link opened cold)", async () => {
+    const context = await browser.newContext({ javaScriptEnabled: false });
+    const page = await context.newPage();
+    await page.goto(`${baseUrl}/checklist?q=${encodeURIComponent("pusy willow")}`);
+    const first = await page.locator("[data-testid=checklist-results] > li").first().textContent();
+    expect(first).toContain("Salix discolor");
+    await context.close();
+  });
+
+  it("looks designed at desktop width", async () => {
+    const page = await browser.newPage({ viewport: { width: 1280, height: 900 } });
+    await page.goto(`${baseUrl}/checklist`);
+    const fontFamily = await page.locator("h1").evaluate((el) => getComputedStyle(el).fontFamily);
+    expect(fontFamily).toMatch(/Lora/);
+    await page.evaluate(() => document.fonts.ready);
+    expect(await page.evaluate(() => document.fonts.check("600 16px Lora"))).toBe(true);
+    await page.screenshot({ path: path.join(screenshotDir, "checklist-desktop.png") });
+    await page.close();
+  });
+});

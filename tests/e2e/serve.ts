@@ -1,0 +1,62 @@
+import { spawn, type ChildProcess } from "node:child_process";
+import { existsSync } from "node:fs";
+import net from "node:net";
+import path from "node:path";
+import type { TestProject } from "vitest/node";
+
+declare module "vitest" {
+  export interface ProvidedContext {
+    baseUrl: string;
+  }
+}
+
+const root = path.resolve(import.meta.dirname, "../..");
+
+function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const server = net.createServer();
+    server.once("error", reject);
+    server.listen(0, "127.0.0.1", () => {
+      const { port } = server.address() as net.AddressInfo;
+      server.close(() => resolve(port));
+    });
+  });
+}
+
+async function waitUntilServing(url: string, server: ChildProcess, log: () => string) {
+  const deadline = Date.now() + 30_000;
+  while (Date.now() < deadline) {
+    if (server.exitCode !== null) throw new Error(`The app server exited early:\n${log()}`);
+    try {
+      const response = await fetch(url);
+      if (response.ok) return;
+    } catch {
+      // not listening yet
+    }
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  throw new Error(`The app server did not answer within 30 s:\n${log()}`);
+}
+
+/** Serves the built app against the e2e database for the browser tests. */
+export default async function serve(project: TestProject) {
+  if (!existsSync(path.join(root, "build/server/index.js"))) {
+    throw new Error("No build: run `npx react-router build` (npm test does) before the browser tests.");
+  }
+  const port = await freePort();
+  let output = "";
+  const server = spawn(process.execPath, [path.join(root, "node_modules/@react-router/serve/bin.js"), "build/server/index.js"], {
+    cwd: root,
+    env: { ...process.env, NODE_ENV: "production", HOST: "127.0.0.1", PORT: String(port), VISITWORT_DB: "e2e" },
+    stdio: ["ignore", "pipe", "pipe"],
+  });
+  server.stdout!.on("data", (chunk) => (output += chunk));
+  server.stderr!.on("data", (chunk) => (output += chunk));
+  const baseUrl = `http://127.0.0.1:${port}`;
+  await waitUntilServing(`${baseUrl}/checklist`, server, () => output);
+  project.provide("baseUrl", baseUrl);
+  return async () => {
+    server.kill("SIGTERM");
+    await new Promise((r) => server.once("exit", r));
+  };
+}

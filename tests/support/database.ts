@@ -1,0 +1,19 @@
+import { MikroORM } from "@mikro-orm/postgresql";
+import config from "../../mikro-orm.config.ts";
+
+/**
+ * The real PostgreSQL test database (VISITWORT_DB=test, migrated by npm test). Each test file
+ * opens its own ORM and empties the tables it needs.
+ */
+export async function openTestOrm(): Promise<MikroORM> {
+  if (process.env.VISITWORT_DB !== "test") throw new Error("Integration tests run against VISITWORT_DB=test only");
+  return MikroORM.init({ ...config, debug: false });
+}
+
+/** Empties every entity table, restarting ids, in one statement. */
+export async function emptyAllTables(orm: MikroORM) {
+  const tables = Object.values(orm.getMetadata().getAll())
+    .filter((meta) => !meta.abstract && !meta.embeddable && meta.tableName)
+    .map((meta) => `"${meta.tableName}"`);
+  await orm.em.getConnection().execute(`TRUNCATE ${tables.join(", ")} RESTART IDENTITY CASCADE`);
+}
