@@ -19,6 +19,9 @@ beforeEach(async () => {
   await emptyAllTables(orm);
 });
 
+const countPlants = async () =>
+  (await orm.em.getConnection().execute<{ count: number }[]>(`SELECT count(*)::int AS count FROM plant_taxon`))[0]!.count;
+
 const snapshot = (table: string) =>
   orm.em.getConnection().execute(`SELECT * FROM "${table}" ORDER BY scientific_name`);
 
@@ -27,8 +30,7 @@ describe("seeding the checklists", () => {
     const files = loadChecklists(DEFAULT_CHECKLIST_FILES);
     const summary = await seedChecklists(orm.em.fork());
     expect(summary).toEqual({ plantsCreated: files.plants.length, beesCreated: files.bees.length });
-    const [{ count }] = await orm.em.getConnection().execute(`SELECT count(*)::int AS count FROM plant_taxon`);
-    expect(count).toBe(files.plants.length);
+    expect(await countPlants()).toBe(files.plants.length);
   });
 
   it("twice leaves the same rows, timestamps included", async () => {
@@ -47,8 +49,7 @@ describe("seeding the checklists", () => {
     writeFileSync(bees, readFileSync(DEFAULT_CHECKLIST_FILES.bees, "utf8").trimEnd() + "\nBombus imaginarius,Nobody 2099,Bombus,made-up bee,perhaps,\n");
     await expect(seedChecklists(orm.em.fork(), { plants: DEFAULT_CHECKLIST_FILES.plants, bees })).rejects.toBeInstanceOf(ChecklistError);
     // The plants file was fine, but the seed is all or nothing.
-    const [{ count }] = await orm.em.getConnection().execute(`SELECT count(*)::int AS count FROM plant_taxon`);
-    expect(count).toBe(0);
+    expect(await countPlants()).toBe(0);
   });
 
   it("leaves taxa added in the app alone", async () => {
