@@ -3,5 +3,11 @@ import type { Config } from "@react-router/dev/config";
 export default {
   // Server rendering on: field pages must show something useful before scripts load.
   ssr: true,
-  future: { v8_middleware: true },
+  future: {
+    v8_middleware: true,
+    v8_splitRouteModules: true,
+    v8_viteEnvironmentApi: true,
+    v8_passThroughRequests: true,
+    v8_trailingSlashAwareDataRequests: true,
+  },
 } satisfies Config;

@@ -8,7 +8,7 @@ ensure_dependencies
 npx tsx scripts/port-free.ts "$PORT" "Visitwort (or another program) is already serving on 127.0.0.1:$PORT. Open http://127.0.0.1:$PORT, stop the other server, or start with PORT=<another port> npm start."
 prepare_database app
 step "Building the app"
-npx react-router build
+npx react-router build --logLevel warn
 step "Serving Visitwort at http://127.0.0.1:$PORT"
 export NODE_ENV=production HOST=127.0.0.1 VISITWORT_DB=app
 exec npx react-router-serve ./build/server/index.js

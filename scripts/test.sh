@@ -10,6 +10,6 @@ prepare_database e2e
 step "Typecheck"
 npm run --silent typecheck
 step "Building the app for the browser tests"
-npx react-router build
+npx react-router build --logLevel warn
 step "Tests"
 exec npx vitest run "$@"
