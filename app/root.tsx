@@ -1,19 +1,36 @@
-import { isRouteErrorResponse, Links, Meta, NavLink, Outlet, Scripts, ScrollRestoration } from "react-router";
+import { Form, isRouteErrorResponse, Links, Meta, NavLink, Outlet, Scripts, ScrollRestoration, useRouteLoaderData } from "react-router";
 import type { Route } from "./+types/root";
 import { databaseMiddleware } from "./db/orm.server";
+import { currentUserMiddleware } from "./auth/current-user.server";
+import { crossSiteMiddleware, securityHeadersMiddleware } from "./http/protection.server";
+import { optionalUser } from "./auth/permissions.server";
+import { navigationFor } from "./auth/navigation";
+import { ROLE_LABELS } from "./auth/roles";
 import { Mark } from "./components/Mark";
+import { useNonce } from "./components/nonce";
 import "./app.css";
 
-export const middleware: Route.MiddlewareFunction[] = [databaseMiddleware];
+// Order matters: headers wrap everything; cross-site writes are refused before anything reads
+// the session; the user is known before any loader or action runs.
+export const middleware: Route.MiddlewareFunction[] = [
+  securityHeadersMiddleware,
+  crossSiteMiddleware,
+  databaseMiddleware,
+  currentUserMiddleware,
+];
+
+export function loader({ context }: Route.LoaderArgs) {
+  const user = optionalUser(context);
+  return { user: user ? { name: user.name, roles: user.roles } : null };
+}
 
 export const meta: Route.MetaFunction = () => [{ title: "Visitwort" }];
 
-const navigation = [
-  { to: "/checklist", label: "Checklist" },
-  { to: "/cautions", label: "Cautions" },
-];
-
 export function Layout({ children }: { children: React.ReactNode }) {
+  const nonce = useNonce();
+  const rootData = useRouteLoaderData<typeof loader>("root");
+  const user = rootData?.user ?? null;
+  const navigation = navigationFor(user?.roles ?? null);
   return (
     <html lang="en">
       <head>
@@ -33,7 +50,7 @@ export function Layout({ children }: { children: React.ReactNode }) {
               <Mark className="h-8 w-8" />
               <span className="font-display text-2xl font-semibold tracking-tight">Visitwort</span>
             </a>
-            <nav aria-label="Main" className="-mx-2 flex flex-1 gap-1 overflow-x-auto">
+            <nav aria-label="Main" className="-mx-2 flex flex-1 items-center gap-1 overflow-x-auto">
               {navigation.map((item) => (
                 <NavLink
                   key={item.to}
@@ -48,6 +65,24 @@ export function Layout({ children }: { children: React.ReactNode }) {
                 </NavLink>
               ))}
             </nav>
+            <div className="flex items-center gap-2 text-sm">
+              {user ? (
+                <>
+                  <NavLink to="/account" className="rounded-md px-2 py-2.5 font-medium text-ink no-underline hover:bg-ink/5" title={user.roles.map((r) => ROLE_LABELS[r]).join(", ")}>
+                    {user.name}
+                  </NavLink>
+                  <Form method="post" action="/logout">
+                    <button type="submit" className="min-h-11 rounded-md border border-ink/25 px-3 font-medium hover:bg-ink/5">
+                      Sign out
+                    </button>
+                  </Form>
+                </>
+              ) : (
+                <NavLink to="/login" className="inline-flex min-h-11 items-center rounded-md border border-moss px-3 font-semibold text-moss-deep no-underline hover:bg-moss/10">
+                  Sign in
+                </NavLink>
+              )}
+            </div>
           </div>
         </header>
         <main id="main" className="mx-auto w-full max-w-5xl flex-1 px-4 py-6">
@@ -63,8 +98,8 @@ export function Layout({ children }: { children: React.ReactNode }) {
             </p>
           </div>
         </footer>
-        <ScrollRestoration />
-        <Scripts />
+        <ScrollRestoration nonce={nonce} />
+        <Scripts nonce={nonce} />
       </body>
     </html>
   );

@@ -1,5 +1,6 @@
 import { type RouteConfig, index, prefix, route } from "@react-router/dev/routes";
 
+// Every route here must also be classified in tests/e2e/route-access.ts (who may see it).
 export default [
   index("routes/home.tsx"),
   route("cautions", "routes/cautions.tsx"),
@@ -7,9 +8,18 @@ export default [
     index("routes/checklist/checklist.tsx"),
     route(":taxonId", "routes/checklist/taxon.tsx"),
   ]),
+  route("login", "routes/auth/login.tsx"),
+  route("logout", "routes/auth/logout.ts"),
+  route("account", "routes/auth/account.tsx"),
+  route("invite/:token", "routes/auth/invite.tsx"),
+  route("forgot-password", "routes/auth/forgot-password.tsx"),
+  route("reset-password/:token", "routes/auth/reset-password.tsx"),
+  route("admin/users", "routes/admin/users.tsx"),
+  route("dev/mail", "routes/dev/mail.tsx"),
   ...prefix("api", [
     route("taxa", "routes/api/taxa.ts"),
     route("taxa/search", "routes/api/taxa-search.ts"),
+    route("me", "routes/api/me.ts"),
   ]),
   route("*", "routes/not-found.tsx"),
 ] satisfies RouteConfig;

@@ -11,4 +11,4 @@ step "Building the app"
 npx react-router build --logLevel warn
 step "Serving Visitwort at http://127.0.0.1:$PORT"
 export NODE_ENV=production HOST=127.0.0.1 VISITWORT_DB=app
-exec npx react-router-serve ./build/server/index.js
+exec node scripts/serve.js

@@ -1,7 +1,12 @@
+import { AccountToken } from "./account-token.entity.ts";
+import { ApiToken } from "./api-token.entity.ts";
 import { BeeTaxon } from "./bee-taxon.entity.ts";
+import { OutboxMessage } from "./outbox-message.entity.ts";
 import { PlantTaxon } from "./plant-taxon.entity.ts";
+import { Session } from "./session.entity.ts";
+import { User } from "./user.entity.ts";
 
 /** Every entity the ORM knows; the config, the app and the tests use this one list. */
-export const entities = [PlantTaxon, BeeTaxon];
+export const entities = [PlantTaxon, BeeTaxon, User, Session, ApiToken, AccountToken, OutboxMessage];
 
-export { BeeTaxon, PlantTaxon };
+export { AccountToken, ApiToken, BeeTaxon, OutboxMessage, PlantTaxon, Session, User };

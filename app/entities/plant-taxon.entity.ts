@@ -11,7 +11,10 @@ export const PlantTaxon = defineEntity({
   name: "PlantTaxon",
   tableName: "plant_taxon",
   checks: [
-    { name: "plant_taxon_bloom_months_check", expression: "bloom_start between 1 and 12 and bloom_end between 1 and 12 and bloom_start <= bloom_end" },
+    {
+      name: "plant_taxon_bloom_months_check",
+      // Written as PostgreSQL prints it back, so migrations do not see a change every time.
+      expression: "((bloom_start >= 1) AND (bloom_start <= 12)) AND ((bloom_end >= 1) AND (bloom_end <= 12)) AND (bloom_start <= bloom_end)" },
   ],
   properties: {
     ...baseProperties,

@@ -45,7 +45,7 @@ export default async function serve(project: TestProject) {
   }
   const port = await freePort();
   let output = "";
-  const server = spawn(process.execPath, [path.join(root, "node_modules/@react-router/serve/bin.js"), "build/server/index.js"], {
+  const server = spawn(process.execPath, [path.join(root, "scripts/serve.js")], {
     cwd: root,
     env: { ...process.env, NODE_ENV: "production", HOST: "127.0.0.1", PORT: String(port), VISITWORT_DB: "e2e" },
     stdio: ["ignore", "pipe", "pipe"],

@@ -1,0 +1,25 @@
+import { hasAnyRole, type Role } from "./roles";
+
+export interface NavigationItem {
+  to: string;
+  label: string;
+  /** Who sees it: "anyone", "signed-in", or the roles (a coordinator sees every item). */
+  audience: "anyone" | "signed-in" | readonly Role[];
+}
+
+/** The main navigation; each capability adds its pages here with the roles that may use them. */
+export const NAVIGATION: NavigationItem[] = [
+  { to: "/checklist", label: "Checklist", audience: "anyone" },
+  { to: "/admin/users", label: "People", audience: ["coordinator"] },
+  { to: "/cautions", label: "Cautions", audience: "anyone" },
+];
+
+/** What the navigation shows to someone with these roles (null: not signed in). */
+export function navigationFor(roles: readonly Role[] | null): NavigationItem[] {
+  return NAVIGATION.filter((item) => {
+    if (item.audience === "anyone") return true;
+    if (roles === null) return false;
+    if (item.audience === "signed-in") return true;
+    return hasAnyRole(roles, item.audience);
+  });
+}
