@@ -79,13 +79,14 @@ async function listen(first: number): Promise<MailCatcher> {
   refuse(`ports ${first}–${first + PORTS_TO_TRY - 1} on 127.0.0.1 are all taken; set MAIL_CATCHER_PORT to a free port.`);
 }
 
+const firstPort = configuredPort();
 const running = readMailCatcherState();
 if (running?.pid && running.pid !== process.pid && isAlive(running.pid) && (await answers(running.port))) {
   console.log(`· mail catcher already running on smtp://127.0.0.1:${running.port} (pid ${running.pid})`);
   process.exit(0);
 }
 
-const catcher = await listen(configuredPort());
+const catcher = await listen(firstPort);
 mkdirSync(path.dirname(mailCatcherStateFile), { recursive: true });
 writeFileSync(mailCatcherStateFile, JSON.stringify({ port: catcher.port, pid: process.pid }, null, 2) + "\n");
 console.log(`· mail catcher listening on smtp://127.0.0.1:${catcher.port}, keeping messages in ${path.relative(projectRoot, caughtMailFolder)}/`);

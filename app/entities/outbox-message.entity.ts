@@ -23,7 +23,7 @@ export const OutboxMessage = defineEntity({
     htmlBody: p.text().nullable(),
     status: p.enum([...OUTBOX_STATUSES]).default("pending"),
     attempts: p.smallint().default(0),
-    // The worker's only query filters on it: what is due now.
+    // The worker looks for pending messages due by now, oldest first.
     nextAttemptAt: p.datetime().index(),
     lastError: p.text().nullable(),
     sentAt: p.datetime().nullable(),

@@ -1,15 +1,17 @@
 import { data } from "react-router";
 import type { Route } from "./+types/mail";
 import { listCaughtMail } from "~/mail/caught-mail.server";
+import { requireUser } from "~/auth/permissions.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Caught e-mail · Visitwort" }];
 
 /**
  * What the local SMTP catcher received, for developers. It exists only while mail goes to the
  * catcher: with a real SMTP server configured (SMTP_URL) the page is not there, since the
- * messages hold sign-in links.
+ * messages hold sign-in links. Coordinators only, for the same reason.
  */
-export async function loader() {
+export async function loader({ request, context }: Route.LoaderArgs) {
+  requireUser(request, context, { roles: ["coordinator"] });
   if (process.env.SMTP_URL) throw data("There is nothing at this address.", { status: 404 });
   return { messages: await listCaughtMail(50) };
 }
