@@ -45,12 +45,13 @@ export function Layout({ children }: { children: React.ReactNode }) {
           Skip to content
         </a>
         <header className="border-b border-ink/10 bg-paper-deep/60">
-          <div className="mx-auto flex max-w-5xl flex-wrap items-center gap-x-6 gap-y-1 px-4 py-3">
-            <a href="/" className="flex items-center gap-2 text-ink no-underline" aria-label="Visitwort, home">
+          <div className="mx-auto flex max-w-5xl flex-wrap items-center gap-x-3 gap-y-1 px-4 pt-3 sm:gap-x-6 pb-1 sm:pb-3">
+            <a href="/" className="order-1 flex items-center gap-2 text-ink no-underline" aria-label="Visitwort, home">
               <Mark className="h-8 w-8" />
               <span className="font-display text-2xl font-semibold tracking-tight">Visitwort</span>
             </a>
-            <nav aria-label="Main" className="-mx-2 flex flex-1 items-center gap-1 overflow-x-auto">
+            {/* On phones the navigation takes its own row under the name, scrolling sideways if long. */}
+            <nav aria-label="Main" className="order-3 -mx-2 flex w-full items-center gap-1 overflow-x-auto sm:order-2 sm:w-auto sm:flex-1">
               {navigation.map((item) => (
                 <NavLink
                   key={item.to}
@@ -65,11 +66,12 @@ export function Layout({ children }: { children: React.ReactNode }) {
                 </NavLink>
               ))}
             </nav>
-            <div className="flex items-center gap-2 text-sm">
+            <div className="order-2 ml-auto flex items-center gap-1 text-sm sm:order-3 sm:gap-2">
               {user ? (
                 <>
-                  <NavLink to="/account" className="rounded-md px-2 py-2.5 font-medium text-ink no-underline hover:bg-ink/5" title={user.roles.map((r) => ROLE_LABELS[r]).join(", ")}>
-                    {user.name}
+                  <NavLink to="/account" className="max-w-[9rem] truncate rounded-md px-2 py-2.5 font-medium text-ink no-underline hover:bg-ink/5" title={user.roles.map((r) => ROLE_LABELS[r]).join(", ")}>
+                    <span className="sm:hidden">Account</span>
+                    <span className="hidden sm:inline">{user.name}</span>
                   </NavLink>
                   <Form method="post" action="/logout">
                     <button type="submit" className="min-h-11 rounded-md border border-ink/25 px-3 font-medium hover:bg-ink/5">

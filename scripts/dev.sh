@@ -4,4 +4,7 @@ source "$(dirname "$0")/lib.sh"
 ensure_dependencies
 prepare_database app
 export VISITWORT_DB=app
+if [ -z "${SMTP_URL:-}" ]; then
+  node_modules/.bin/tsx scripts/mail-catcher.ts --exit-with $$ &
+fi
 exec npx react-router dev --host 127.0.0.1 --port "${PORT:-5173}"

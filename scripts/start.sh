@@ -9,6 +9,11 @@ npx tsx scripts/port-free.ts "$PORT" "Visitwort (or another program) is already 
 prepare_database app
 step "Building the app"
 npx react-router build --logLevel warn
+if [ -z "${SMTP_URL:-}" ]; then
+  step "Starting the local mail catcher (read what was sent at /dev/mail, signed in as a coordinator)"
+  # tsx itself, not npx: npx does not pass signals on. --exit-with: it stops with the server.
+  node_modules/.bin/tsx scripts/mail-catcher.ts --exit-with $$ &
+fi
 step "Serving Visitwort at http://127.0.0.1:$PORT"
 export NODE_ENV=production HOST=127.0.0.1 VISITWORT_DB=app
 exec node scripts/serve.js

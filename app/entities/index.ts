@@ -4,9 +4,10 @@ import { BeeTaxon } from "./bee-taxon.entity.ts";
 import { OutboxMessage } from "./outbox-message.entity.ts";
 import { PlantTaxon } from "./plant-taxon.entity.ts";
 import { Session } from "./session.entity.ts";
+import { SignInAttempt } from "./sign-in-attempt.entity.ts";
 import { User } from "./user.entity.ts";
 
 /** Every entity the ORM knows; the config, the app and the tests use this one list. */
-export const entities = [PlantTaxon, BeeTaxon, User, Session, ApiToken, AccountToken, OutboxMessage];
+export const entities = [PlantTaxon, BeeTaxon, User, Session, ApiToken, AccountToken, OutboxMessage, SignInAttempt];
 
-export { AccountToken, ApiToken, BeeTaxon, OutboxMessage, PlantTaxon, Session, User };
+export { AccountToken, ApiToken, BeeTaxon, OutboxMessage, PlantTaxon, Session, SignInAttempt, User };

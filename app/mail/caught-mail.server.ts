@@ -17,7 +17,7 @@ export interface CaughtMail {
   messageId: string | null;
 }
 
-export const caughtMailFolder = path.join(projectRoot, ".data", "mail");
+export const caughtMailFolder = process.env.MAIL_CATCHER_FOLDER ?? path.join(projectRoot, ".data", "mail");
 
 /** The newest caught messages first; none when the catcher never ran. */
 export async function listCaughtMail(limit = 50, folder = caughtMailFolder): Promise<CaughtMail[]> {

@@ -67,7 +67,9 @@ export function createMailTransport(override?: { host: string; port: number }): 
   const url = process.env.SMTP_URL;
   if (url && !override) return nodemailer.createTransport({ ...timeouts, url }, defaults);
   const host = override?.host ?? "127.0.0.1";
-  const port = override?.port ?? readMailCatcherState()?.port ?? DEFAULT_MAIL_CATCHER_PORT;
+  // MAIL_CATCHER_PORT names a catcher started by someone else (the browser tests' own).
+  const fromEnvironment = process.env.MAIL_CATCHER_PORT ? Number(process.env.MAIL_CATCHER_PORT) : undefined;
+  const port = override?.port ?? fromEnvironment ?? readMailCatcherState()?.port ?? DEFAULT_MAIL_CATCHER_PORT;
   // The catcher speaks plain SMTP on the loopback interface only; nothing to encrypt there.
   return nodemailer.createTransport({ ...timeouts, host, port, secure: false, ignoreTLS: true }, defaults);
 }

@@ -2,11 +2,16 @@ import { spawn, type ChildProcess } from "node:child_process";
 import { existsSync } from "node:fs";
 import net from "node:net";
 import path from "node:path";
+import { mkdtempSync } from "node:fs";
+import os from "node:os";
 import type { TestProject } from "vitest/node";
+import { startMailCatcher } from "../../app/mail/catcher.server.ts";
 
 declare module "vitest" {
   export interface ProvidedContext {
     baseUrl: string;
+    /** Where the browser tests' own mail catcher keeps what the app sent (one JSON file each). */
+    mailFolder: string;
   }
 }
 
@@ -44,10 +49,16 @@ export default async function serve(project: TestProject) {
     throw new Error("No build: run `npx react-router build` (npm test does) before the browser tests.");
   }
   const port = await freePort();
+  const mailFolder = mkdtempSync(path.join(os.tmpdir(), "visitwort-e2e-mail-"));
+  const catcher = await startMailCatcher({ host: "127.0.0.1", port: 0, store: mailFolder });
   let output = "";
   const server = spawn(process.execPath, [path.join(root, "scripts/serve.js")], {
     cwd: root,
-    env: { ...process.env, NODE_ENV: "production", HOST: "127.0.0.1", PORT: String(port), VISITWORT_DB: "e2e" },
+    env: { ...process.env, NODE_ENV: "production", HOST: "127.0.0.1", PORT: String(port), VISITWORT_DB: "e2e",
+      MAIL_CATCHER_PORT: String(catcher.port),
+      SMTP_URL: "",
+      MAIL_CATCHER_FOLDER: mailFolder,
+    },
     stdio: ["ignore", "pipe", "pipe"],
   });
   server.stdout!.on("data", (chunk) => (output += chunk));
@@ -55,8 +66,10 @@ export default async function serve(project: TestProject) {
   const baseUrl = `http://127.0.0.1:${port}`;
   await waitUntilServing(`${baseUrl}/checklist`, server, () => output);
   project.provide("baseUrl", baseUrl);
+  project.provide("mailFolder", mailFolder);
   return async () => {
     server.kill("SIGTERM");
     await new Promise((r) => server.once("exit", r));
+    await catcher.close();
   };
 }

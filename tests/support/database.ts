@@ -10,16 +10,10 @@ export async function openTestOrm(): Promise<MikroORM> {
   return MikroORM.init({ ...config, debug: false });
 }
 
-// Tables written by migrations by hand, outside the entities.
-const TABLES_WITHOUT_ENTITY = ["sign_in_attempt"];
-
 /** Empties every table, restarting ids, in one statement. */
 export async function emptyAllTables(orm: MikroORM) {
-  const tables = [
-    ...Object.values(orm.getMetadata().getAll())
-      .filter((meta) => !meta.abstract && !meta.embeddable && meta.tableName)
-      .map((meta) => meta.tableName),
-    ...TABLES_WITHOUT_ENTITY,
-  ].map((name) => `"${name}"`);
+  const tables = Object.values(orm.getMetadata().getAll())
+    .filter((meta) => !meta.abstract && !meta.embeddable && meta.tableName)
+    .map((meta) => `"${meta.tableName}"`);
   await orm.em.getConnection().execute(`TRUNCATE ${tables.join(", ")} RESTART IDENTITY CASCADE`);
 }
