@@ -14,6 +14,8 @@ export default [
   route("invite/:token", "routes/auth/invite.tsx"),
   route("forgot-password", "routes/auth/forgot-password.tsx"),
   route("reset-password/:token", "routes/auth/reset-password.tsx"),
+  route("signup", "routes/auth/signup.tsx"),
+  route("confirm-email/:token", "routes/auth/confirm-email.tsx"),
   route("admin/users", "routes/admin/users.tsx"),
   route("dev/mail", "routes/dev/mail.tsx"),
   ...prefix("api", [

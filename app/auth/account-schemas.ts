@@ -33,6 +33,10 @@ export const acceptInvitationForm = z
   .object({ name: personName, password: newPassword, confirmPassword: z.string() })
   .refine((v) => v.password === v.confirmPassword, { path: ["confirmPassword"], message: "The two passwords differ" });
 
+export const signUpForm = z
+  .object({ name: personName, email, password: newPassword, confirmPassword: z.string() })
+  .refine((v) => v.password === v.confirmPassword, { path: ["confirmPassword"], message: "The two passwords differ" });
+
 export const resetPasswordForm = z
   .object({ password: newPassword, confirmPassword: z.string() })
   .refine((v) => v.password === v.confirmPassword, { path: ["confirmPassword"], message: "The two passwords differ" });

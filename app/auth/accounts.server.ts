@@ -1,7 +1,8 @@
 import type { EntityManager } from "@mikro-orm/postgresql";
 import { AccountToken, ApiToken, User } from "../entities/index.ts";
 import { queueMail } from "../mail/outbox.server.ts";
-import { invitationMail, passwordResetMail } from "../mail/templates.ts";
+import { emailConfirmationMail, invitationMail, passwordResetMail } from "../mail/templates.ts";
+import { readSetting } from "../admin/settings.server.ts";
 import { endAllSessions } from "./session.server.ts";
 import { hashPassword, verifyPassword } from "./password.server.ts";
 import { ROLE_LABELS, type Role } from "./roles.ts";
@@ -9,6 +10,7 @@ import { digest, newSecret } from "./tokens.server.ts";
 
 export const INVITATION_DAYS = 7;
 export const PASSWORD_RESET_MINUTES = 60;
+export const EMAIL_CONFIRMATION_HOURS = 48;
 
 /** A refusal a person can act on; shown next to the form, never a 500. */
 export class AccountError extends Error {
@@ -231,4 +233,46 @@ export async function createUser(em: EntityManager, input: { email: string; name
   });
   await em.flush();
   return user;
+}
+
+/**
+ * Self-sign-up as a recorder, when the programme allows it. The account cannot sign in until
+ * the address is confirmed. An address that already has an account gets no second one, and the
+ * page answers the same either way.
+ */
+export async function signUp(em: EntityManager, input: { name: string; email: string; password: string; origin: string }): Promise<void> {
+  if (!(await readSetting(em, "openSignUp"))) throw new AccountError("This programme takes new members by invitation only.");
+  const existing = await em.findOne(User, { email: input.email });
+  if (existing?.emailConfirmedAt) return;
+  await em.transactional(async (tx) => {
+    // Signing up again before confirming sends a fresh link; the first password stands.
+    const user = existing
+      ? tx.merge(existing)
+      : tx.create(User, {
+          email: input.email,
+          name: input.name,
+          passwordHash: await hashPassword(input.password),
+          roles: ["recorder"],
+          status: "active",
+          emailConfirmedAt: null,
+          lastSignInAt: null,
+        });
+    const { secret, token } = await issueToken(tx, { purpose: "email_confirmation", email: input.email, user }, EMAIL_CONFIRMATION_HOURS * 3600 * 1000);
+    queueMail(tx, {
+      to: input.email,
+      ...emailConfirmationMail({ confirmUrl: `${input.origin}/confirm-email/${secret}`, expiresAt: token.expiresAt }),
+      template: "email_confirmation",
+    });
+  });
+}
+
+export async function confirmEmail(em: EntityManager, secret: string): Promise<User> {
+  return em.transactional(async (tx) => {
+    const token = await findUsableToken(tx, secret, "email_confirmation");
+    const user = token?.user ? await tx.findOne(User, { id: token.user.id }) : null;
+    if (!token || !user) throw new AccountError("This confirmation link is no longer valid. Sign up again to get a new one.");
+    user.emailConfirmedAt = new Date();
+    token.usedAt = new Date();
+    return user;
+  });
 }

@@ -74,6 +74,9 @@ async function checkSignIn(em: EntityManager, form: FormData, address: string): 
   if (user.status !== "active") {
     throw new SignInRefused("This account has been deactivated. Ask a coordinator if you think this is a mistake.");
   }
+  if (!user.emailConfirmedAt) {
+    throw new SignInRefused("Confirm your e-mail address first: open the link we sent when you signed up.");
+  }
   await limit.account.delete(email);
   return user;
 }

@@ -3,11 +3,12 @@ import { ApiToken } from "./api-token.entity.ts";
 import { BeeTaxon } from "./bee-taxon.entity.ts";
 import { OutboxMessage } from "./outbox-message.entity.ts";
 import { PlantTaxon } from "./plant-taxon.entity.ts";
+import { ProgrammeSetting } from "./programme-setting.entity.ts";
 import { Session } from "./session.entity.ts";
 import { SignInAttempt } from "./sign-in-attempt.entity.ts";
 import { User } from "./user.entity.ts";
 
 /** Every entity the ORM knows; the config, the app and the tests use this one list. */
-export const entities = [PlantTaxon, BeeTaxon, User, Session, ApiToken, AccountToken, OutboxMessage, SignInAttempt];
+export const entities = [PlantTaxon, BeeTaxon, User, Session, ApiToken, AccountToken, OutboxMessage, SignInAttempt, ProgrammeSetting];
 
-export { AccountToken, ApiToken, BeeTaxon, OutboxMessage, PlantTaxon, Session, SignInAttempt, User };
+export { AccountToken, ApiToken, BeeTaxon, OutboxMessage, PlantTaxon, ProgrammeSetting, Session, SignInAttempt, User };

@@ -168,3 +168,21 @@ describe("security headers", () => {
     for (const [, attributes] of scripts) expect(attributes).toContain(`nonce="${nonce}"`);
   });
 });
+
+describe("sign-in throttling over HTTP", () => {
+  it("answers the sixth wrong password in a row with 429 and a message saying how long to wait", async () => {
+    const email = `throttle.${Date.now()}@example.org`;
+    const attempt = () =>
+      fetch(`${baseUrl}/login`, {
+        method: "POST",
+        redirect: "manual",
+        headers: { "Content-Type": "application/x-www-form-urlencoded", Origin: baseUrl, "Sec-Fetch-Site": "same-origin" },
+        body: new URLSearchParams({ email, password: "wrong password", next: "/" }),
+      });
+    for (let i = 1; i <= 5; i++) expect((await attempt()).status).toBe(400);
+    const sixth = await attempt();
+    expect(sixth.status).toBe(429);
+    expect(Number(sixth.headers.get("retry-after"))).toBeGreaterThan(0);
+    expect(await sixth.text()).toContain("Too many failed sign-ins");
+  });
+});

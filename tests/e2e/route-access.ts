@@ -33,6 +33,9 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   "routes/auth/invite.tsx": { sample: "/invite/not-a-real-token", access: "anyone" },
   "routes/auth/forgot-password.tsx": { sample: "/forgot-password", access: "anyone" },
   "routes/auth/reset-password.tsx": { sample: "/reset-password/not-a-real-token", access: "anyone" },
+  // Open to anyone; says "by invitation" while the programme's setting keeps sign-up closed.
+  "routes/auth/signup.tsx": { sample: "/signup", access: "anyone" },
+  "routes/auth/confirm-email.tsx": { sample: "/confirm-email/not-a-real-token", access: "anyone" },
   "routes/admin/users.tsx": { sample: "/admin/users", access: ["coordinator"], write: { intent: "invite", email: "matrix@example.org", roles: "recorder" } },
   "routes/dev/mail.tsx": { sample: "/dev/mail", access: ["coordinator"] },
   "routes/api/taxa.ts": { sample: "/api/taxa", access: "anyone" },

@@ -5,7 +5,10 @@ import path from "node:path";
 import { mkdtempSync } from "node:fs";
 import os from "node:os";
 import type { TestProject } from "vitest/node";
+import { MikroORM } from "@mikro-orm/postgresql";
+import config from "../../mikro-orm.config.ts";
 import { startMailCatcher } from "../../app/mail/catcher.server.ts";
+import { databaseUrl } from "../../app/db/database-url.server.ts";
 
 declare module "vitest" {
   export interface ProvidedContext {
@@ -48,6 +51,11 @@ export default async function serve(project: TestProject) {
   if (!existsSync(path.join(root, "build/server/index.js"))) {
     throw new Error("No build: run `npx react-router build` (npm test does) before the browser tests.");
   }
+  // Failed sign-ins of earlier runs would still count for 15 minutes and lock the demo accounts.
+  const orm = await MikroORM.init({ ...config, clientUrl: databaseUrl("e2e") });
+  await orm.em.getConnection().execute("DELETE FROM sign_in_attempt");
+  await orm.close(true);
+
   const port = await freePort();
   const mailFolder = mkdtempSync(path.join(os.tmpdir(), "visitwort-e2e-mail-"));
   const catcher = await startMailCatcher({ host: "127.0.0.1", port: 0, store: mailFolder });

@@ -64,7 +64,7 @@ describe("signing in with the demo accounts", () => {
     await page.getByLabel("Password").fill(DEMO_PASSWORD);
     await page.getByRole("button", { name: "Sign in" }).click();
     await page.waitForURL(`${baseUrl}/account`);
-    expect(await page.getByRole("heading", { level: 1 }).textContent()).toBe("Your account");
+    await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("Your account");
     await page.close();
   });
 });

@@ -9,7 +9,10 @@ import {
   requestPasswordReset,
   resetPassword,
   setStatus,
+  signUp,
+  confirmEmail,
 } from "~/auth/accounts.server";
+import { writeSetting } from "~/admin/settings.server";
 import { signIn, SignInRefused } from "~/auth/sign-in.server";
 import { findSessionUser, startSession } from "~/auth/session.server";
 import { AccountToken, OutboxMessage, Session } from "~/entities";
@@ -174,5 +177,33 @@ describe("deactivation", () => {
     await setStatus(orm.em.fork(), user.id, "deactivated", admin.id);
     expect(await findSessionUser(orm.em.fork(), new Request(ORIGIN, { headers: { Cookie: cookie } }))).toBeNull();
     await expect(signIn(orm.em.fork(), formPost("/login", { email: "leaver@example.org", password: "a long enough password" }))).rejects.toThrow(/deactivated/);
+  });
+});
+
+describe("self-sign-up as a recorder", () => {
+  it("is refused while the programme takes members by invitation only (the default)", async () => {
+    await expect(signUp(orm.em.fork(), { name: "Eager", email: "eager@example.org", password: "a long enough password", origin: ORIGIN })).rejects.toBeInstanceOf(AccountError);
+    expect(await orm.em.fork().count(OutboxMessage, {})).toBe(0);
+  });
+
+  it("when open: signs up, cannot sign in until the e-mailed link confirms the address", async () => {
+    await writeSetting(orm.em.fork(), "openSignUp", true);
+    await signUp(orm.em.fork(), { name: "Eager", email: "eager@example.org", password: "a long enough password", origin: ORIGIN });
+    const credentials = formPost("/login", { email: "eager@example.org", password: "a long enough password" });
+    await expect(signIn(orm.em.fork(), credentials)).rejects.toThrow(/Confirm your e-mail address/);
+
+    await deliverMail();
+    const secret = linkSentTo("eager@example.org", "/confirm-email");
+    const user = await confirmEmail(orm.em.fork(), secret);
+    expect(user.roles).toEqual(["recorder"]);
+    await expect(signIn(orm.em.fork(), formPost("/login", { email: "eager@example.org", password: "a long enough password" }))).resolves.toMatchObject({ id: user.id });
+    await expect(confirmEmail(orm.em.fork(), secret)).rejects.toBeInstanceOf(AccountError);
+  });
+
+  it("makes no second account for a taken address, and says nothing different", async () => {
+    await writeSetting(orm.em.fork(), "openSignUp", true);
+    await createUser(orm.em.fork(), { email: "taken@example.org", name: "T", password: "a long enough password", roles: ["planner"] });
+    await expect(signUp(orm.em.fork(), { name: "Other", email: "taken@example.org", password: "another long password", origin: ORIGIN })).resolves.toBeUndefined();
+    expect(await orm.em.fork().count(OutboxMessage, {})).toBe(0);
   });
 });

@@ -16,13 +16,15 @@ import { requireUser } from "~/auth/permissions.server";
 import { AccountError, inviteUser, listUsers, publicOrigin, setRoles, setStatus } from "~/auth/accounts.server";
 import { fieldErrors, formToObject, inviteForm, roleList, type FieldErrors } from "~/auth/account-schemas";
 import { ROLE_LABELS, ROLES, type Role } from "~/auth/roles";
+import { readSetting, writeSetting } from "~/admin/settings.server";
 import { Field, FormMessage, PrimaryButton, SecondaryButton } from "~/components/forms";
 
 export const meta: Route.MetaFunction = () => [{ title: "People · Visitwort" }];
 
 export async function loader({ request, context }: Route.LoaderArgs) {
   const me = requireUser(request, context, { roles: ["coordinator"] });
-  return { ...(await listUsers(context.get(entityManagerContext))), myId: me.id };
+  const em = context.get(entityManagerContext);
+  return { ...(await listUsers(em)), myId: me.id, openSignUp: await readSetting(em, "openSignUp") };
 }
 
 type ActionResult = { intent: string; message?: string; error?: string; fields?: FieldErrors };
@@ -39,6 +41,11 @@ export async function action({ request, context }: Route.ActionArgs) {
       if (!parsed.success) return refuse({ intent, fields: fieldErrors(parsed.error) });
       await inviteUser(em, { ...parsed.data, invitedById: me.id, origin: publicOrigin(request) });
       return { intent, message: `Invitation sent to ${parsed.data.email}. The link works for 7 days.` } satisfies ActionResult;
+    }
+    if (intent === "sign-up-setting") {
+      const open = form.get("openSignUp") === "on";
+      await writeSetting(em, "openSignUp", open);
+      return { intent, message: open ? "Anyone can now sign up as a recorder at /signup, after confirming their e-mail." : "Sign-up is closed: new members join by invitation." } satisfies ActionResult;
     }
     const userId = Number(form.get("userId"));
     if (!Number.isInteger(userId)) return refuse({ intent, error: "No person chosen." });
@@ -169,9 +176,22 @@ export default function Users({ loaderData, actionData }: Route.ComponentProps) 
         )}
       </section>
 
+      <section className="max-w-xl space-y-2">
+        <h2 className="text-xl">Joining without an invitation</h2>
+        {result?.intent === "sign-up-setting" && result.message && <FormMessage tone="success">{result.message}</FormMessage>}
+        <Form method="post" className="flex flex-wrap items-center gap-3">
+          <input type="hidden" name="intent" value="sign-up-setting" />
+          <label className="inline-flex min-h-11 items-center gap-2">
+            <input type="checkbox" name="openSignUp" defaultChecked={loaderData.openSignUp} className="h-5 w-5 accent-moss" />
+            Let people sign up as recorders themselves (each confirms through a link we send them)
+          </label>
+          <SecondaryButton disabled={busy}>Save</SecondaryButton>
+        </Form>
+      </section>
+
       <section className="space-y-3">
         <h2 className="text-xl">Everyone in the programme</h2>
-        {result && result.intent !== "invite" && (result.message || result.error) && (
+        {result && result.intent !== "invite" && result.intent !== "sign-up-setting" && (result.message || result.error) && (
           <FormMessage tone={result.error ? "error" : "success"}>{result.error ?? result.message}</FormMessage>
         )}
         <div className="flex flex-wrap gap-3">

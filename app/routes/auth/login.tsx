@@ -6,13 +6,20 @@ import { signIn, SignInRefused } from "~/auth/sign-in.server";
 import { startSession } from "~/auth/session.server";
 import { safeNextPath } from "~/http/redirects";
 import { Field, FormMessage, PrimaryButton } from "~/components/forms";
+import { readSetting } from "~/admin/settings.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Sign in · Visitwort" }];
 
-export function loader({ request, context }: Route.LoaderArgs) {
+// A throttled sign-in says when to come back (Retry-After), on the document response too.
+export function headers({ actionHeaders }: Route.HeadersArgs) {
+  return actionHeaders;
+}
+
+export async function loader({ request, context }: Route.LoaderArgs) {
   const next = safeNextPath(new URL(request.url).searchParams.get("next"));
   if (optionalUser(context)) throw redirect(next);
-  return { next, reset: new URL(request.url).searchParams.has("reset") };
+  const openSignUp = await readSetting(context.get(entityManagerContext), "openSignUp");
+  return { next, reset: new URL(request.url).searchParams.has("reset"), openSignUp };
 }
 
 export async function action({ request, context }: Route.ActionArgs) {
@@ -51,7 +58,13 @@ export default function Login({ loaderData, actionData }: Route.ComponentProps) 
         <Link to="/forgot-password">Forgotten your password?</Link>
       </p>
       <p className="text-sm text-ink-soft">
-        Accounts are made by invitation from your programme’s coordinator.
+        {loaderData.openSignUp ? (
+          <>
+            New here? <Link to="/signup">Sign up as a recorder</Link>.
+          </>
+        ) : (
+          "Accounts are made by invitation from your programme’s coordinator."
+        )}
       </p>
     </div>
   );
