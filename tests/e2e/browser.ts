@@ -1,6 +1,7 @@
 import { mkdirSync } from "node:fs";
 import path from "node:path";
 import { chromium, type Browser } from "playwright-core";
+import { afterAll, beforeAll } from "vitest";
 
 export const screenshotDir = path.resolve(import.meta.dirname, "../../test-results");
 
@@ -19,5 +20,17 @@ export async function launchBrowser(): Promise<Browser> {
       "--disable-component-update",
       "--disable-sync",
     ],
+  });
+}
+
+/** For a test file: one browser for all its tests, handed to `receive` once launched. */
+export function useBrowser(receive: (browser: Browser) => void) {
+  let browser: Browser | undefined;
+  beforeAll(async () => {
+    browser = await launchBrowser();
+    receive(browser);
+  });
+  afterAll(async () => {
+    await browser?.close();
   });
 }

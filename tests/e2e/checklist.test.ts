@@ -1,17 +1,12 @@
 import path from "node:path";
 import type { Browser } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import { launchBrowser, screenshotDir } from "./browser";
+import { describe, expect, inject, it } from "vitest";
+import { screenshotDir, useBrowser } from "./browser";
 
 let browser: Browser;
 const baseUrl = inject("baseUrl");
 
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+useBrowser((launched) => (browser = launched));
 
 describe("the plant checklist in a browser", () => {
   it("finds bloodroot from a misspelt common name, on a phone-sized screen", async () => {

@@ -1,20 +1,15 @@
 import path from "node:path";
 import type { Browser, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { describe, expect, inject, it } from "vitest";
 import { DEMO_PASSWORD } from "~/db/demo-seed.server";
 import { listCaughtMail } from "~/mail/caught-mail.server";
-import { launchBrowser, screenshotDir } from "./browser";
+import { screenshotDir, useBrowser } from "./browser";
 
 let browser: Browser;
 const baseUrl = inject("baseUrl");
 const mailFolder = inject("mailFolder");
 
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+useBrowser((launched) => (browser = launched));
 
 /** Waits for the outbox worker to hand a message for `to` to the catcher; returns its link. */
 async function linkInMailTo(to: string, linkPath: string): Promise<string> {

@@ -1,19 +1,14 @@
 import path from "node:path";
 import type { Browser, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { describe, expect, inject, it } from "vitest";
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from "~/db/demo-seed.server";
 import { navigationFor } from "~/auth/navigation";
-import { launchBrowser, screenshotDir } from "./browser";
+import { screenshotDir, useBrowser } from "./browser";
 
 let browser: Browser;
 const baseUrl = inject("baseUrl");
 
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-});
+useBrowser((launched) => (browser = launched));
 
 async function signIn(page: Page, email: string, password = DEMO_PASSWORD) {
   await page.goto(`${baseUrl}/login`);

@@ -1,5 +1,5 @@
 import type { MikroORM } from "@mikro-orm/postgresql";
-import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it, vi } from "vitest";
+import { afterEach, describe, expect, it, vi } from "vitest";
 import { OutboxMessage } from "~/entities/outbox-message.entity";
 import { startMailCatcher, type MailCatcher } from "~/mail/catcher.server";
 import {
@@ -13,20 +13,12 @@ import {
 } from "~/mail/outbox.server";
 import { escapeHtml, invitationMail } from "~/mail/templates";
 import { createMailTransport, mailSender } from "~/mail/transport.server";
-import { emptyAllTables, openTestOrm } from "../support/database";
+import { useEmptyTestDatabase } from "../support/database";
 
 let orm: MikroORM;
 const catchers: MailCatcher[] = [];
 
-beforeAll(async () => {
-  orm = await openTestOrm();
-});
-afterAll(async () => {
-  await orm.close(true);
-});
-beforeEach(async () => {
-  await emptyAllTables(orm);
-});
+useEmptyTestDatabase((opened) => (orm = opened));
 afterEach(async () => {
   await Promise.all(catchers.splice(0).map((catcher) => catcher.close()));
   vi.unstubAllEnvs();

@@ -2,22 +2,14 @@ import type { MikroORM } from "@mikro-orm/postgresql";
 import { mkdtempSync, readFileSync, writeFileSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { afterAll, beforeAll, beforeEach, describe, expect, it } from "vitest";
+import { describe, expect, it } from "vitest";
 import { DEFAULT_CHECKLIST_FILES, seedChecklists } from "~/db/seed.server";
 import { ChecklistError, loadChecklists } from "~/taxa/checklist-import.server";
-import { emptyAllTables, openTestOrm } from "../support/database";
+import { useEmptyTestDatabase } from "../support/database";
 
 let orm: MikroORM;
 
-beforeAll(async () => {
-  orm = await openTestOrm();
-});
-afterAll(async () => {
-  await orm.close(true);
-});
-beforeEach(async () => {
-  await emptyAllTables(orm);
-});
+useEmptyTestDatabase((opened) => (orm = opened));
 
 const countPlants = async () =>
   (await orm.em.getConnection().execute<{ count: number }[]>(`SELECT count(*)::int AS count FROM plant_taxon`))[0]!.count;

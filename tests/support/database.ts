@@ -1,4 +1,5 @@
 import { MikroORM } from "@mikro-orm/postgresql";
+import { afterAll, beforeAll, beforeEach } from "vitest";
 import config from "../../mikro-orm.config.ts";
 
 /**
@@ -16,4 +17,22 @@ export async function emptyAllTables(orm: MikroORM) {
     .filter((meta) => !meta.abstract && !meta.embeddable && meta.tableName)
     .map((meta) => `"${meta.tableName}"`);
   await orm.em.getConnection().execute(`TRUNCATE ${tables.join(", ")} RESTART IDENTITY CASCADE`);
+}
+
+/**
+ * For a test file: opens the ORM once, empties every table before each test, closes at the end.
+ * `receive` is handed the ORM when it is open.
+ */
+export function useEmptyTestDatabase(receive: (orm: MikroORM) => void) {
+  let orm: MikroORM;
+  beforeAll(async () => {
+    orm = await openTestOrm();
+    receive(orm);
+  });
+  afterAll(async () => {
+    await orm?.close(true);
+  });
+  beforeEach(async () => {
+    await emptyAllTables(orm);
+  });
 }
