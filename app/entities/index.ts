@@ -7,8 +7,12 @@ import { ProgrammeSetting } from "./programme-setting.entity.ts";
 import { Session } from "./session.entity.ts";
 import { SignInAttempt } from "./sign-in-attempt.entity.ts";
 import { User } from "./user.entity.ts";
+import { Site } from "./site.entity.ts";
+import { Visit } from "./visit.entity.ts";
+import { Photo } from "./photo.entity.ts";
+import { Determination } from "./determination.entity.ts";
 
 /** Every entity the ORM knows; the config, the app and the tests use this one list. */
-export const entities = [PlantTaxon, BeeTaxon, User, Session, ApiToken, AccountToken, OutboxMessage, SignInAttempt, ProgrammeSetting];
+export const entities = [PlantTaxon, BeeTaxon, User, Session, ApiToken, AccountToken, OutboxMessage, SignInAttempt, ProgrammeSetting, Site, Visit, Photo, Determination];
 
-export { AccountToken, ApiToken, BeeTaxon, OutboxMessage, PlantTaxon, ProgrammeSetting, Session, SignInAttempt, User };
+export { AccountToken, ApiToken, BeeTaxon, Determination, Photo, Site, Visit, OutboxMessage, PlantTaxon, ProgrammeSetting, Session, SignInAttempt, User };

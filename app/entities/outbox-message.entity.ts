@@ -27,7 +27,7 @@ export const OutboxMessage = defineEntity({
     status: p.enum([...OUTBOX_STATUSES]).default("pending"),
     attempts: p.smallint().default(0),
     // The worker looks for pending messages due by now, oldest first.
-    nextAttemptAt: p.datetime().index(),
+    nextAttemptAt: p.datetime(),
     lastError: p.text().nullable(),
     sentAt: p.datetime().nullable(),
     // Which template built the message, so tests and the admin view can find a kind of mail
