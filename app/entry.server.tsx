@@ -8,6 +8,7 @@ import { renderToPipeableStream, type RenderToPipeableStreamOptions } from "reac
 import { NonceContext } from "./components/nonce";
 import { contentSecurityPolicy } from "./http/protection.server";
 import { startBackgroundWork } from "./background.server";
+import { storageOrigin } from "./storage/s3.server";
 
 export const streamTimeout = 5_000;
 
@@ -26,7 +27,7 @@ export default function handleRequest(
   }
   const nonce = randomBytes(16).toString("base64");
   // Vite's dev server injects its own inline scripts; the policy applies to built apps.
-  if (!import.meta.env.DEV) responseHeaders.set("Content-Security-Policy", contentSecurityPolicy(nonce));
+  if (!import.meta.env.DEV) responseHeaders.set("Content-Security-Policy", contentSecurityPolicy(nonce, storageOrigin()));
 
   return new Promise((resolve, reject) => {
     let shellRendered = false;

@@ -16,12 +16,21 @@ export default [
   route("reset-password/:token", "routes/auth/reset-password.tsx"),
   route("signup", "routes/auth/signup.tsx"),
   route("confirm-email/:token", "routes/auth/confirm-email.tsx"),
+  ...prefix("visits", [
+    index("routes/visits/visits.tsx"),
+    route("new", "routes/visits/new.tsx"),
+    route(":visitId", "routes/visits/visit.tsx"),
+  ]),
+  route("photos/:photoId", "routes/visits/photo.ts"),
   route("admin/users", "routes/admin/users.tsx"),
   route("dev/mail", "routes/dev/mail.tsx"),
   ...prefix("api", [
     route("taxa", "routes/api/taxa.ts"),
     route("taxa/search", "routes/api/taxa-search.ts"),
     route("me", "routes/api/me.ts"),
+    route("visits", "routes/api/visits.ts"),
+    route("visits/:id", "routes/api/visit.ts"),
+    route("photos/uploads", "routes/api/photo-uploads.ts"),
   ]),
   route("*", "routes/not-found.tsx"),
 ] satisfies RouteConfig;

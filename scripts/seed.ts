@@ -7,6 +7,9 @@ import config from "../mikro-orm.config.ts";
 import { seedChecklists } from "../app/db/seed.server.ts";
 import { seedDemoAccounts } from "../app/db/demo-seed.server.ts";
 import { ChecklistError } from "../app/taxa/checklist-import.server.ts";
+import { seedDemoVisits } from "./demo/visits.ts";
+import { putPhotoBytes, storageStatus } from "../app/storage/s3.server.ts";
+import { makeJpegWithExif } from "../tests/support/photos.ts";
 
 const orm = await MikroORM.init(config);
 try {
@@ -14,7 +17,16 @@ try {
   console.log(`· seeded checklists: ${summary.plantsCreated} new plant taxa, ${summary.beesCreated} new bee taxa`);
   if (process.env.VISITWORT_DEMO !== "off") {
     const accounts = await seedDemoAccounts(orm.em.fork());
-    console.log(`· demo programme: ${accounts} new demo accounts`);
+    // Photo bytes go to storage when it runs (npm start starts it first); the records stand either way.
+    const storage = await storageStatus();
+    const visits = await seedDemoVisits(orm.em.fork(), {
+      makePhoto: (seed) => makeJpegWithExif({ width: 480, height: 360, pattern: "petals", quality: 70, description: `Visitwort demo photo ${seed}` }),
+      storePhoto: storage.ok ? (key, bytes) => putPhotoBytes(key, bytes, "image/jpeg") : undefined,
+    });
+    console.log(
+      `· demo programme: ${accounts} new demo accounts, ${visits.visits} new visits at ${visits.sites} sites, ${visits.photos} photos` +
+        (visits.photos && !storage.ok ? " (photo files not stored: photo storage is not running)" : ""),
+    );
   }
 } catch (error) {
   if (error instanceof ChecklistError) {

@@ -8,8 +8,8 @@ export const Site = defineEntity({
   properties: {
     ...baseProperties,
     name: p.string().length(200).unique(),
-    decimalLatitude: p.double(),
-    decimalLongitude: p.double(),
+    decimalLatitude: p.double().$type<number>(),
+    decimalLongitude: p.double().$type<number>(),
     coordinateUncertaintyInMeters: p.integer().default(100),
     habitat: p.string().length(300).default(""),
     // ISO 3166-2 subdivision, e.g. US-WI.

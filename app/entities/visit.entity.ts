@@ -25,9 +25,10 @@ export const Visit = defineEntity({
     // The wall-clock date where the bee was seen (months and seasons are local).
     eventLocalDate: p.date(),
     eventTimeZone: p.string().length(64).default(""),
-    decimalLatitude: p.double(),
-    decimalLongitude: p.double(),
-    coordinateUncertaintyInMeters: p.integer(),
+    decimalLatitude: p.double().$type<number>(),
+    decimalLongitude: p.double().$type<number>(),
+    // Unknown is allowed (an API client may not know it); zero is not a valid value in Darwin Core.
+    coordinateUncertaintyInMeters: p.integer().nullable(),
     site: () => p.manyToOne(Site).nullable().deleteRule("set null").index(),
     behavior: p.enum([...BEHAVIORS]),
     habitatNotes: p.text().default(""),

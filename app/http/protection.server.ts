@@ -46,14 +46,16 @@ export const securityHeadersMiddleware: MiddlewareFunction<Response> = async (_a
   return response;
 };
 
-export function contentSecurityPolicy(nonce: string): string {
+/** `photoOrigin`: object storage, which the browser uploads photos to and shows them from. */
+export function contentSecurityPolicy(nonce: string, photoOrigin?: string): string {
+  const photos = photoOrigin ? ` ${photoOrigin}` : "";
   return [
     "default-src 'self'",
     `script-src 'self' 'nonce-${nonce}'`,
     "style-src 'self' 'unsafe-inline'",
-    "img-src 'self' data: blob:",
+    `img-src 'self' data: blob:${photos}`,
     "font-src 'self'",
-    "connect-src 'self'",
+    `connect-src 'self'${photos}`,
     "object-src 'none'",
     "base-uri 'self'",
     "form-action 'self'",

@@ -19,6 +19,8 @@ export interface RouteAccess {
   access: Access;
   /** A form the route's action accepts, to check writes are refused to the same people. */
   write?: Record<string, string>;
+  /** What an allowed viewer gets, when not 200 (a redirect to storage, a 405 for GET). */
+  okStatus?: number;
 }
 
 export const ROUTE_ACCESS: Record<string, RouteAccess> = {
@@ -36,6 +38,16 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   // Open to anyone; says "by invitation" while the programme's setting keeps sign-up closed.
   "routes/auth/signup.tsx": { sample: "/signup", access: "anyone" },
   "routes/auth/confirm-email.tsx": { sample: "/confirm-email/not-a-real-token", access: "anyone" },
+  "routes/visits/visits.tsx": { sample: "/visits", access: ["recorder"] },
+  "routes/visits/new.tsx": { sample: "/visits/new", access: ["recorder"], write: { clientSubmissionId: "00000000-0000-4000-8000-000000000000" } },
+  // Visit 1 of the demo seed belongs to the demo recorder; verifiers see visits to determine them.
+  "routes/visits/visit.tsx": { sample: "/visits/1", access: ["recorder", "botanist", "bee_verifier"] },
+  // Allowed viewers are sent on to a short-lived storage URL.
+  "routes/visits/photo.ts": { sample: "/photos/1", access: ["recorder", "botanist", "bee_verifier"], okStatus: 302 },
+  "routes/api/visits.ts": { sample: "/api/visits", access: "signed-in" },
+  "routes/api/visit.ts": { sample: "/api/visits/1", access: ["recorder", "botanist", "bee_verifier"] },
+  // POST only: a GET from an allowed caller is told to use POST.
+  "routes/api/photo-uploads.ts": { sample: "/api/photos/uploads", access: ["recorder"], okStatus: 405, write: { contentType: "image/jpeg" } },
   "routes/admin/users.tsx": { sample: "/admin/users", access: ["coordinator"], write: { intent: "invite", email: "matrix@example.org", roles: "recorder" } },
   "routes/dev/mail.tsx": { sample: "/dev/mail", access: ["coordinator"] },
   "routes/api/taxa.ts": { sample: "/api/taxa", access: "anyone" },
