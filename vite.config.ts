@@ -38,6 +38,8 @@ export default defineConfig({
           name: "browser",
           include: ["tests/e2e/**/*.test.ts"],
           globalSetup: ["tests/e2e/serve.ts"],
+          // A page can take seconds to settle on a loaded 2-core machine; poll that long.
+          expect: { poll: { timeout: 10_000, interval: 100 } },
           env: { VISITWORT_DB: "e2e" },
           testTimeout: 60_000,
           hookTimeout: 60_000,

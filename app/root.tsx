@@ -58,6 +58,8 @@ export function Layout({ children }: { children: React.ReactNode }) {
                 <NavLink
                   key={item.to}
                   to={item.to}
+                  // "Visits" must not light up on "Record" (/visits/new) too.
+                  end={item.to === "/visits"}
                   className={({ isActive }) =>
                     `whitespace-nowrap rounded-md px-3 py-2.5 text-[0.95rem] font-medium no-underline ${
                       isActive ? "bg-moss text-paper" : "text-ink hover:bg-ink/5"

@@ -18,7 +18,12 @@ try {
   if (process.env.VISITWORT_DEMO !== "off") {
     const accounts = await seedDemoAccounts(orm.em.fork());
     // Photo bytes go to storage when it runs (npm start starts it first); the records stand either way.
-    const storage = await storageStatus();
+    let storage = await storageStatus();
+    // npm start starts the storage fake alongside; give it a few seconds to listen.
+    for (let tries = 0; !storage.ok && process.env.VISITWORT_EXPECT_STORAGE && tries < 20; tries++) {
+      await new Promise((resolve) => setTimeout(resolve, 500));
+      storage = await storageStatus();
+    }
     const visits = await seedDemoVisits(orm.em.fork(), {
       makePhoto: (seed) => makeJpegWithExif({ width: 480, height: 360, pattern: "petals", quality: 70, description: `Visitwort demo photo ${seed}` }),
       storePhoto: storage.ok ? (key, bytes) => putPhotoBytes(key, bytes, "image/jpeg") : undefined,

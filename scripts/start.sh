@@ -6,6 +6,12 @@ export PORT="${PORT:-3000}"
 ensure_dependencies
 # Refuse early, before rebuilding under a running server.
 npx tsx scripts/port-free.ts "$PORT" "Visitwort (or another program) is already serving on 127.0.0.1:$PORT. Open http://127.0.0.1:$PORT, stop the other server, or start with PORT=<another port> npm start."
+if [ -z "${S3_ENDPOINT:-}" ]; then
+  step "Starting the local photo storage (an S3-compatible fake on 127.0.0.1)"
+  node_modules/.bin/tsx scripts/s3-fake.ts --exit-with $$ &
+  # The demo seed stores its photos there: let the seed wait for it.
+  export VISITWORT_EXPECT_STORAGE=1
+fi
 prepare_database app
 step "Building the app"
 npx react-router build --logLevel warn

@@ -9,6 +9,8 @@ export interface NavigationItem {
 
 /** The main navigation; each capability adds its pages here with the roles that may use them. */
 export const NAVIGATION: NavigationItem[] = [
+  { to: "/visits/new", label: "Record", audience: ["recorder"] },
+  { to: "/visits", label: "Visits", audience: ["recorder"] },
   { to: "/checklist", label: "Checklist", audience: "anyone" },
   { to: "/admin/users", label: "People", audience: ["coordinator"] },
   { to: "/cautions", label: "Cautions", audience: "anyone" },

@@ -74,8 +74,8 @@ export function storageConfig(): StorageConfig {
   const endpoint = env("S3_ENDPOINT");
   if (endpoint) return { endpoint: endpoint.replace(/\/+$/, ""), region, bucket, credentials: given, localFake: false };
   // S3_FAKE_PORT names a fake started by someone else (the browser tests' own).
-  const fakePort = env("S3_FAKE_PORT") ? Number(env("S3_FAKE_PORT")) : undefined;
-  const port = fakePort ?? readS3FakeState()?.port ?? DEFAULT_S3_FAKE_PORT;
+  const fakePort = Number(env("S3_FAKE_PORT"));
+  const port = (Number.isInteger(fakePort) && fakePort > 0 ? fakePort : undefined) ?? readS3FakeState()?.port ?? DEFAULT_S3_FAKE_PORT;
   return { endpoint: `http://127.0.0.1:${port}`, region, bucket, credentials: given ?? FAKE_CREDENTIALS, localFake: true };
 }
 
@@ -103,12 +103,13 @@ function clientFor(config: StorageConfig): S3Client {
       endpoint: config.endpoint,
       region: config.region,
       credentials: config.credentials,
-      // Bucket in the path: works with the fake, MinIO-like servers and AWS alike, and keeps
+      // Bucket in the path: works with the fake, other S3-compatible servers and S3 itself, and keeps
       // the bucket name out of DNS and TLS certificates.
       forcePathStyle: true,
-      // Only the checksums a request needs: with the newer default the SDK adds CRC32
-      // parameters to presigned PUTs (which the browser's body would then have to match) and
-      // may send aws-chunked bodies, which S3-compatible servers such as the fake store as is.
+      // Only the checksums a request needs: by default this SDK puts the CRC32 of an empty
+      // body (x-amz-checksum-crc32=AAAAAA==) into presigned PUTs, which storage that checks it
+      // holds the browser's file against, and may send aws-chunked bodies, which some
+      // S3-compatible servers (the fake among them) store framing and all.
       requestChecksumCalculation: "WHEN_REQUIRED",
       responseChecksumValidation: "WHEN_REQUIRED",
       // A storage that does not answer should fail a request within seconds, not hang it.

@@ -52,6 +52,7 @@ export const DEFAULT_CANDIDATE_CAP = 300;
 export interface TaxonIndexOptions {
   /** `Infinity` lets fuse.js rank the whole checklist: the reference the narrowing is measured against. */
   candidateCap?: number;
+  minShare?: number;
 }
 
 export const normaliseName = (text: string) =>
@@ -88,6 +89,7 @@ const PAIRS_UP_TO = 4;
  */
 export function createTaxonIndex<T extends SearchableTaxon>(taxa: readonly T[], options: TaxonIndexOptions = {}) {
   const candidateCap = options.candidateCap ?? DEFAULT_CANDIDATE_CAP;
+  const minShare = options.minShare ?? 0;
   const names: NameEntry<T>[] = taxa.flatMap((taxon, taxonIndex) => [
     { taxon, taxonIndex, name: taxon.scientificName, normalised: normaliseName(taxon.scientificName), field: "scientificName" as const },
     ...taxon.vernacularNames.map((name) => ({ taxon, taxonIndex, name, normalised: normaliseName(name), field: "vernacularName" as const })),
@@ -104,6 +106,8 @@ export function createTaxonIndex<T extends SearchableTaxon>(taxa: readonly T[], 
   // Counters reused by every query rather than allocated per keystroke; all zero between queries.
   const sharedByName = new Uint16Array(names.length);
   const bestByTaxon = new Uint16Array(taxa.length);
+  const totalByTaxon = new Uint16Array(taxa.length);
+  const MODE = process.env.MODE ?? "A";
 
   function literalHits(query: string): TaxonHit<T>[] {
     const best = new Map<number, TaxonHit<T>>();
@@ -155,14 +159,23 @@ export function createTaxonIndex<T extends SearchableTaxon>(taxa: readonly T[], 
       const taxonIndex = names[entry]!.taxonIndex;
       if (bestByTaxon[taxonIndex] === 0) touchedTaxa.push(taxonIndex);
       if (shared > bestByTaxon[taxonIndex]!) bestByTaxon[taxonIndex] = shared;
+      totalByTaxon[taxonIndex] += shared;
     }
     const byShared: number[][] = Array.from({ length: grams.size + 1 }, () => []);
+    if (MODE !== "A") {
+      const key = (t: number) => MODE === "B" ? bestByTaxon[t]! * 1000 + totalByTaxon[t]! : totalByTaxon[t]! * 1000 + bestByTaxon[t]!;
+      const sorted = touchedTaxa.sort((a, b) => key(b) - key(a) || a - b).slice(0, candidateCap);
+      for (const t of touchedTaxa) { bestByTaxon[t] = 0; totalByTaxon[t] = 0; }
+      return sorted;
+    }
     for (const taxonIndex of touchedTaxa) {
       byShared[bestByTaxon[taxonIndex]!]!.push(taxonIndex);
       bestByTaxon[taxonIndex] = 0;
+      totalByTaxon[taxonIndex] = 0;
     }
     const chosen: number[] = [];
-    for (let shared = grams.size; shared >= 1 && chosen.length < candidateCap; shared--) {
+    const floor = Math.max(1, Math.ceil(grams.size * minShare));
+    for (let shared = grams.size; shared >= floor && chosen.length < candidateCap; shared--) {
       // Within a tie, checklist order: the same query always gets the same candidates.
       const tied = byShared[shared]!.sort((a, b) => a - b);
       chosen.push(...tied.slice(0, candidateCap - chosen.length));

@@ -65,6 +65,9 @@ export const visitInput = z
     photos: z.array(photoReference).max(MAX_PHOTOS, `At most ${MAX_PHOTOS} photos per visit`).default([]),
   })
   .superRefine((visit, ctx) => {
+    // Runs even when single fields failed (see `when` below), so the form shows every problem
+    // at once; fields may then hold raw values, hence the defensive reads.
+    const photos = Array.isArray(visit.photos) ? visit.photos.filter((p) => p && typeof p === "object") : [];
     const hasPoint = visit.decimalLatitude !== undefined && visit.decimalLongitude !== undefined;
     if (!hasPoint && visit.siteId === undefined) {
       ctx.addIssue({ code: "custom", path: ["decimalLatitude"], message: "Give the place: use your location, a photo's location, or choose a site" });
@@ -76,15 +79,15 @@ export const visitInput = z
     if (!namesPlant && !visit.plantNotIdentified) {
       ctx.addIssue({ code: "custom", path: ["plantTaxonId"], message: "Choose the plant, or say you could not identify it" });
     }
-    if (namesPlant && visit.plantNotIdentified) {
+    if (namesPlant && visit.plantNotIdentified === true) {
       ctx.addIssue({ code: "custom", path: ["plantTaxonId"], message: "Either choose a plant or say it is not identified, not both" });
     }
-    if (visit.plantNotIdentified && !visit.photos.some((photo) => photo.subject === "plant")) {
+    if (visit.plantNotIdentified === true && !photos.some((photo) => photo.subject === "plant")) {
       ctx.addIssue({ code: "custom", path: ["photos"], message: "Add at least one photo of the plant, so a botanist can identify it" });
     }
-    const keys = visit.photos.map((photo) => photo.key);
+    const keys = photos.map((photo) => photo.key);
     if (new Set(keys).size !== keys.length) ctx.addIssue({ code: "custom", path: ["photos"], message: "The same photo is attached twice" });
-  });
+  }, { when: (payload) => typeof payload.value === "object" && payload.value !== null });
 
 export type VisitInput = z.output<typeof visitInput>;
 

@@ -214,7 +214,7 @@ export async function listVisits(
   const ids = visits.map((v) => v.id);
   const photoRows = ids.length
     ? await em.getConnection().execute<{ visit_id: number; count: number; first_id: number }[]>(
-        `SELECT visit_id, count(*)::int AS count, min(id) AS first_id FROM photo WHERE visit_id = ANY(?) GROUP BY visit_id`,
+        `SELECT visit_id, count(*)::int AS count, min(id) AS first_id FROM photo WHERE visit_id IN (?) GROUP BY visit_id`,
         [ids],
       )
     : [];

@@ -8,6 +8,7 @@ import type { TestProject } from "vitest/node";
 import { MikroORM } from "@mikro-orm/postgresql";
 import config from "../../mikro-orm.config.ts";
 import { startMailCatcher } from "../../app/mail/catcher.server.ts";
+import { startS3Fake } from "../../app/storage/s3-fake.server.ts";
 import { databaseUrl } from "../../app/db/database-url.server.ts";
 
 declare module "vitest" {
@@ -59,12 +60,18 @@ export default async function serve(project: TestProject) {
   const port = await freePort();
   const mailFolder = mkdtempSync(path.join(os.tmpdir(), "visitwort-e2e-mail-"));
   const catcher = await startMailCatcher({ host: "127.0.0.1", port: 0, store: mailFolder });
+  const storage = await startS3Fake({ port: 0, directory: mkdtempSync(path.join(os.tmpdir(), "visitwort-e2e-s3-")) });
   let output = "";
   const server = spawn(process.execPath, [path.join(root, "scripts/serve.js")], {
     cwd: root,
     env: { ...process.env, NODE_ENV: "production", HOST: "127.0.0.1", PORT: String(port), VISITWORT_DB: "e2e",
       MAIL_CATCHER_PORT: String(catcher.port),
       SMTP_URL: "",
+      S3_ENDPOINT: "",
+      S3_FAKE_PORT: String(storage.port),
+      S3_ACCESS_KEY_ID: "",
+      S3_SECRET_ACCESS_KEY: "",
+      S3_BUCKET: "",
       MAIL_CATCHER_FOLDER: mailFolder,
     },
     stdio: ["ignore", "pipe", "pipe"],
@@ -79,5 +86,6 @@ export default async function serve(project: TestProject) {
     server.kill("SIGTERM");
     await new Promise((r) => server.once("exit", r));
     await catcher.close();
+    await storage.close();
   };
 }

@@ -55,7 +55,7 @@ export function PhotoPicker({
   const input = useRef<HTMLInputElement>(null);
   return (
     <label className="flex min-h-12 flex-1 cursor-pointer items-center justify-center gap-2 rounded-md border-2 border-dashed border-moss/60 bg-white/70 px-3 text-center font-semibold text-moss-deep has-[:focus-visible]:outline-3 has-[:focus-visible]:outline-pollen">
-      <span aria-hidden="true">＋</span> {label}
+      <span aria-hidden="true" className="text-xl leading-none">+</span> {label}
       <input
         ref={input}
         type="file"

@@ -58,6 +58,7 @@ export default function Visits({ loaderData }: Route.ComponentProps) {
   const [searchParams, setSearchParams] = useSearchParams();
   const loading = useNavigation().state === "loading";
   const pages = Math.max(1, Math.ceil(total / query.pageSize));
+  const filtersInUse = ["bee", "plant", "caste", "status", "month", "site"].some((key) => query[key as keyof typeof query] !== undefined);
 
   const columns = useMemo(
     () => [
@@ -159,7 +160,9 @@ export default function Visits({ loaderData }: Route.ComponentProps) {
         </Link>
       </header>
 
-      <Form method="get" className="grid grid-cols-2 gap-2 sm:grid-cols-3 lg:grid-cols-6" aria-label="Filter visits">
+      <details open={filtersInUse || undefined} className="group rounded-lg border border-ink/10 bg-white/40 p-3 sm:border-0 sm:bg-transparent sm:p-0 sm:[&>summary]:hidden" data-filters>
+      <summary className="min-h-11 cursor-pointer py-2 font-semibold">Filter{filtersInUse ? " (in use)" : ""}</summary>
+      <Form method="get" className="mt-2 grid grid-cols-2 gap-2 sm:mt-0 sm:grid-cols-3 lg:grid-cols-6" aria-label="Filter visits">
         <input type="hidden" name="sort" value={query.sort} />
         <input type="hidden" name="order" value={query.order} />
         <Filter label="Bee" name="bee" value={query.bee} options={[["unsure", "Bombus sp. (not sure)"], ...loaderData.bees.map((b) => [String(b.id), b.scientificName] as [string, string])]} />
@@ -173,8 +176,31 @@ export default function Visits({ loaderData }: Route.ComponentProps) {
           <Link to="/visits" className="inline-flex min-h-11 items-center rounded-md border border-ink/25 px-4 text-ink no-underline">Clear</Link>
         </div>
       </Form>
+      </details>
 
-      <div className={`overflow-x-auto rounded-lg border border-ink/10 bg-white/50 ${loading ? "opacity-60" : ""}`}>
+      {/* Phones get cards; the table needs more width than a phone has. */}
+      <ul className="space-y-2 sm:hidden" aria-label="Visits">
+        {rows.map((row) => (
+          <li key={row.id} data-testid="visit-card">
+            <Link to={`/visits/${row.id}`} className="flex gap-3 rounded-lg border border-ink/10 bg-white/60 p-2 text-ink no-underline">
+              {row.firstPhotoId ? (
+                <img src={`/photos/${row.firstPhotoId}`} alt="" loading="lazy" className="h-16 w-16 flex-none rounded object-cover" />
+              ) : (
+                <span className="h-16 w-16 flex-none rounded bg-ink/5" />
+              )}
+              <span className="min-w-0 flex-1 space-y-0.5">
+                <span className="block text-sm text-ink-soft">{row.eventLocalDate}{row.siteName ? ` · ${row.siteName}` : ""}</span>
+                <span className="block truncate">{row.plantName ? <i>{row.plantName}</i> : "Plant not identified"}</span>
+                <span className="block truncate text-sm"><i>{row.beeName}</i> · {CASTE_LABELS[row.caste]}</span>
+                <span className="flex flex-wrap gap-1"><StatusTag status={row.plantStatus} label="Plant" /><StatusTag status={row.beeStatus} label="Bee" /></span>
+              </span>
+            </Link>
+          </li>
+        ))}
+        {rows.length === 0 && <li className="py-6 text-center text-ink-soft">No visits match.</li>}
+      </ul>
+
+      <div className={`hidden overflow-x-auto sm:block rounded-lg border border-ink/10 bg-white/50 ${loading ? "opacity-60" : ""}`}>
         <table className="w-full text-left text-[0.95rem]">
           <thead className="bg-paper-deep/70">
             {table.getHeaderGroups().map((group) => (
