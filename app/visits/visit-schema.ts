@@ -12,11 +12,23 @@ const ISO_WITH_OFFSET = /^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2})(?::(\d{2})(?:\
 // Phones' clocks drift; a few minutes ahead of the server is not "the future".
 const CLOCK_SKEW_MS = 5 * 60 * 1000;
 
+/** Date.parse rolls 30 February over into March; a record must name a day that exists. */
+function isRealDateTime(value: string): boolean {
+  const match = ISO_WITH_OFFSET.exec(value);
+  if (!match) return false;
+  const [year, month, day, hour, minute, second] = match.slice(1, 7).map((part) => Number(part ?? 0)) as number[];
+  const date = new Date(Date.UTC(year!, month! - 1, day!, hour!, minute!, second!));
+  return (
+    date.getUTCFullYear() === year && date.getUTCMonth() === month! - 1 && date.getUTCDate() === day &&
+    date.getUTCHours() === hour && date.getUTCMinutes() === minute && !Number.isNaN(Date.parse(value))
+  );
+}
+
 export const eventDate = z
   .string({ message: "Enter the date and time you saw the bee" })
   .trim()
   .regex(ISO_WITH_OFFSET, "Enter the date and time as 2025-04-27T09:41-05:00")
-  .refine((value) => !Number.isNaN(Date.parse(value)), "This is not a real date")
+  .refine(isRealDateTime, "This is not a real date")
   .refine((value) => Date.parse(value) <= Date.now() + CLOCK_SKEW_MS, "The date cannot be in the future")
   .refine((value) => Date.parse(value) >= Date.UTC(1900, 0, 1), "The date is before 1900");
 
