@@ -16,6 +16,9 @@ export const User = defineEntity({
     status: p.enum(["active", "deactivated"]).default("active"),
     emailConfirmedAt: p.datetime().nullable(),
     lastSignInAt: p.datetime().nullable(),
+    // How a recorder hears what became of their visits: an e-mail each time, or one a day.
+    noticePreference: p.enum(["each", "daily_digest", "none"]).default("each"),
+    lastDigestAt: p.datetime().nullable(),
   },
 });
 

@@ -9,7 +9,7 @@ export interface MailContent {
   html: string;
 }
 
-export const MAIL_TEMPLATES = ["invitation", "password_reset", "email_confirmation"] as const;
+export const MAIL_TEMPLATES = ["invitation", "password_reset", "email_confirmation", "determination_notice", "daily_digest"] as const;
 export type MailTemplateName = (typeof MAIL_TEMPLATES)[number];
 
 const HTML_ESCAPES: Record<string, string> = { "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" };
@@ -65,13 +65,15 @@ interface Layout {
   linkLabel: string;
   /** Paragraphs after the link. */
   after: string[];
+  /** The small print; by default the line for mail somebody may not have asked for. */
+  closing?: string;
 }
 
-function render({ subject, before, linkUrl, linkLabel, after }: Layout): MailContent {
+function render({ subject, before, linkUrl, linkLabel, after, closing = IGNORE_LINE }: Layout): MailContent {
   const url = webLink(linkUrl);
   // The bare address stays on its own line in the text part: mail readers make it clickable,
   // and it can be copied when they do not.
-  const text = [...before, `${linkLabel}:\n${url}`, ...after, IGNORE_LINE, `— ${SIGNATURE}`].join("\n\n") + "\n";
+  const text = [...before, `${linkLabel}:\n${url}`, ...after, closing, `— ${SIGNATURE}`].join("\n\n") + "\n";
   const paragraph = (content: string) => `<p style="margin:0 0 16px">${content}</p>`;
   const html = [
     "<!doctype html>",
@@ -85,7 +87,7 @@ function render({ subject, before, linkUrl, linkLabel, after }: Layout): MailCon
     // The same address written out, for readers that strip buttons or links.
     paragraph(`If the button does not work, copy this address into your browser:<br><span style="word-break:break-all">${escapeHtml(url)}</span>`),
     ...after.map((p) => paragraph(escapeHtml(p))),
-    `<p style="margin:24px 0 0;color:#55524a;font-size:14px">${escapeHtml(IGNORE_LINE)}<br>— ${escapeHtml(SIGNATURE)}</p>`,
+    `<p style="margin:24px 0 0;color:#55524a;font-size:14px">${escapeHtml(closing)}<br>— ${escapeHtml(SIGNATURE)}</p>`,
     "</body></html>",
     "",
   ].join("\n");
@@ -151,5 +153,51 @@ export function emailConfirmationMail({ confirmUrl, expiresAt, timeZone }: Email
     linkUrl: confirmUrl,
     linkLabel: "Confirm my e-mail address",
     after: expiresAt ? [`The link expires on ${formatExpiry(expiresAt, timeZone)}.`] : [],
+  });
+}
+
+const NOTICE_CLOSING = "You get these notices because you recorded the visit. Choose one a day, or none, on your account page.";
+
+/** One line of what happened to a visit, in words: "the plant was confirmed as Salix discolor". */
+export interface DeterminationNotice {
+  visitDate: string;
+  subject: "plant" | "bee";
+  outcome: "confirmed" | "corrected" | "cannot_be_determined";
+  /** The name now standing, e.g. "Salix discolor" or "Bombus impatiens (queen)"; null when none. */
+  name: string | null;
+  identifiedBy: string;
+  remarks: string;
+}
+
+export function describeNotice(notice: DeterminationNotice): string {
+  const what = notice.subject === "plant" ? "the plant" : "the bee";
+  const verdict =
+    notice.outcome === "confirmed"
+      ? `${notice.identifiedBy} confirmed ${what} as ${notice.name}`
+      : notice.outcome === "corrected"
+        ? `${notice.identifiedBy} corrected ${what} to ${notice.name ?? "an unnamed taxon"}`
+        : `${notice.identifiedBy} could not determine ${what} from the photos`;
+  return `Your visit of ${notice.visitDate}: ${verdict}${notice.remarks ? ` (“${notice.remarks}”)` : ""}.`;
+}
+
+export function determinationNoticeMail({ visitUrl, notice }: { visitUrl: string; notice: DeterminationNotice }): MailContent {
+  return render({
+    subject: notice.subject === "plant" ? "A botanist looked at your visit" : "A bee verifier looked at your visit",
+    before: ["Hello,", describeNotice(notice)],
+    linkUrl: visitUrl,
+    linkLabel: "See the visit and its history",
+    after: ["Thank you for recording it: verified visits are what the forage ranking is made of."],
+    closing: NOTICE_CLOSING,
+  });
+}
+
+export function dailyDigestMail({ visitsUrl, notices }: { visitsUrl: string; notices: DeterminationNotice[] }): MailContent {
+  return render({
+    subject: `${notices.length} ${notices.length === 1 ? "visit was" : "visits were"} looked at today`,
+    before: ["Hello,", "Since yesterday's summary:", ...notices.map(describeNotice)],
+    linkUrl: visitsUrl,
+    linkLabel: "See your visits",
+    after: [],
+    closing: NOTICE_CLOSING,
   });
 }
