@@ -4,9 +4,13 @@ import { type RouteConfig, index, prefix, route } from "@react-router/dev/routes
 export default [
   index("routes/home.tsx"),
   route("cautions", "routes/cautions.tsx"),
+  route("checklist/export.csv", "routes/checklist/export.ts"),
   ...prefix("checklist", [
     index("routes/checklist/checklist.tsx"),
+    route("new", "routes/checklist/new.tsx"),
+    route("import", "routes/checklist/import.tsx"),
     route(":taxonId", "routes/checklist/taxon.tsx"),
+    route(":taxonId/edit", "routes/checklist/edit.tsx"),
   ]),
   route("login", "routes/auth/login.tsx"),
   route("logout", "routes/auth/logout.ts"),
@@ -22,6 +26,7 @@ export default [
     route(":visitId", "routes/visits/visit.tsx"),
   ]),
   route("photos/:photoId", "routes/visits/photo.ts"),
+  route("determinations", "routes/determinations/queue.tsx"),
   route("admin/users", "routes/admin/users.tsx"),
   route("dev/mail", "routes/dev/mail.tsx"),
   ...prefix("api", [
@@ -30,6 +35,7 @@ export default [
     route("me", "routes/api/me.ts"),
     route("visits", "routes/api/visits.ts"),
     route("visits/:id", "routes/api/visit.ts"),
+    route("visits/:id/determinations", "routes/api/visit-determinations.ts"),
     route("photos/uploads", "routes/api/photo-uploads.ts"),
   ]),
   route("*", "routes/not-found.tsx"),

@@ -276,3 +276,11 @@ export async function confirmEmail(em: EntityManager, secret: string): Promise<U
     return user;
   });
 }
+
+export async function setNoticePreference(em: EntityManager, userId: number, preference: User["noticePreference"]) {
+  await em.nativeUpdate(User, { id: userId }, { noticePreference: preference });
+}
+
+export async function noticePreferenceOf(em: EntityManager, userId: number): Promise<User["noticePreference"]> {
+  return (await em.findOneOrFail(User, { id: userId })).noticePreference;
+}

@@ -11,6 +11,7 @@ export interface NavigationItem {
 export const NAVIGATION: NavigationItem[] = [
   { to: "/visits/new", label: "Record", audience: ["recorder"] },
   { to: "/visits", label: "Visits", audience: ["recorder"] },
+  { to: "/determinations", label: "Determine", audience: ["botanist", "bee_verifier"] },
   { to: "/checklist", label: "Checklist", audience: "anyone" },
   { to: "/admin/users", label: "People", audience: ["coordinator"] },
   { to: "/cautions", label: "Cautions", audience: "anyone" },

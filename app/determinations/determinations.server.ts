@@ -172,7 +172,7 @@ export interface QueueFilters {
  * The visits waiting for a determiner, oldest first. For bees, records of sensitive species
  * come first: they count only once verified.
  */
-export async function listQueue(em: EntityManager, subject: PhotoSubject, filters: QueueFilters, limit = 50) {
+export async function listQueue(em: EntityManager, subject: PhotoSubject, filters: QueueFilters, limit = 50, include?: number) {
   const qb = em
     .createQueryBuilder(Visit, "v")
     .select("v.*")
@@ -186,7 +186,12 @@ export async function listQueue(em: EntityManager, subject: PhotoSubject, filter
   if (filters.month) qb.andWhere("extract(month from v.event_local_date) = ?", [filters.month]);
   if (filters.family) qb.andWhere({ plantTaxon: { family: filters.family } });
   const orderBy = subject === "bee" ? [{ beeTaxon: { sensitive: "desc nulls last" } }, { createdAt: "asc" }, { id: "asc" }] : [{ createdAt: "asc" }, { id: "asc" }];
-  const [total, visits] = await Promise.all([qb.clone().getCount(), qb.orderBy(orderBy as never).limit(limit).getResult()]);
+  const [total, visits] = await Promise.all([qb.clone().getCount(), qb.clone().orderBy(orderBy as never).limit(limit).getResult()]);
+  // A visit asked for by id joins the list even when it is further back in the queue.
+  if (include !== undefined && !visits.some((v) => v.id === include)) {
+    const wanted = await qb.clone().andWhere({ id: include }).getResult();
+    visits.unshift(...wanted);
+  }
   const photos = visits.length ? await em.find(Photo, { visit: { $in: visits.map((v) => v.id) } }, { orderBy: { id: "asc" } }) : [];
   return {
     total,

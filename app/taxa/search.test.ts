@@ -1,8 +1,10 @@
 import { distance } from "fastest-levenshtein";
+import Fuse from "fuse.js";
 import { describe, expect, it } from "vitest";
 import { DEFAULT_CHECKLIST_FILES } from "~/db/seed.server";
+import { benchQueries, paddedChecklist } from "../../scripts/bench/picker.ts";
 import { loadChecklists } from "./checklist-import.server";
-import { createTaxonIndex, normaliseName } from "./search";
+import { createTaxonIndex, normaliseName, taxonFuseOptions, type SearchableTaxon, type TaxonHit } from "./search";
 
 const plants = loadChecklists(DEFAULT_CHECKLIST_FILES).plants.map((row, i) => ({ id: i + 1, ...row }));
 const index = createTaxonIndex(plants);
@@ -65,6 +67,71 @@ describe("fuzzy search of the plant checklist", () => {
         expect(closestStretch(normaliseName(hit.matchedName), q), `${query} → ${hit.matchedName}`).toBeLessThanOrEqual(Math.ceil(q.length * 0.4));
       }
     }
+  });
+});
+
+describe("narrowing the candidates before fuse.js ranks them", () => {
+  // The seeded plants padded with generated names (fixed seed), as in the benchmark.
+  const padded = paddedChecklist(plants, 10_000);
+  const paddedIndex = createTaxonIndex(padded);
+  const seededTaxon = (name: string) => plants.find((p) => p.scientificName === name)!;
+  // More misspellings of the seeded names, made by the benchmark's rules (a letter dropped,
+  // doubled or swapped), so the comparison does not rest on twelve queries alone.
+  const generated = benchQueries(plants, 120)
+    .filter((q) => q.kind === "misspelling")
+    .map((q) => [q.text, plants.find((p) => p.id === q.intendedId)!.scientificName] as const);
+
+  /** Whether the narrowed search and plain fuse.js over the whole list put the taxon in their top three. */
+  function topThree(
+    taxa: readonly SearchableTaxon[],
+    narrowed: { search(query: string, limit: number): TaxonHit<SearchableTaxon>[] },
+    queries: readonly (readonly [string, string])[],
+  ) {
+    const plain = new Fuse<SearchableTaxon>(taxa, taxonFuseOptions);
+    return queries.map(([query, intended]) => ({
+      query,
+      ours: narrowed.search(query, 3).some((hit) => hit.taxon.scientificName === intended),
+      plain: plain.search(query, { limit: 3 }).some((result) => result.item.scientificName === intended),
+    }));
+  }
+
+  it("finds each misspelt taxon of the seeded checklist exactly when plain fuse.js does", () => {
+    expect(generated.length).toBeGreaterThanOrEqual(50);
+    const rows = topThree(plants, index, [...misspellings.map(([q, name]) => [q, name] as const), ...generated]);
+    // fuse.js (npm): the same options over the whole list are the reference; narrowing may
+    // only leave out taxa, so a query it answers worse is a lost hit.
+    for (const row of rows) expect(row.ours, row.query).toBe(row.plain);
+    expect(rows.filter((r) => r.ours).length).toBe(rows.filter((r) => r.plain).length);
+  }, 30_000);
+
+  it("finds each misspelt taxon of a 10,000-taxon checklist exactly when plain fuse.js does", () => {
+    const rows = topThree(padded, paddedIndex, misspellings.map(([q, name]) => [q, name] as const));
+    // fuse.js (npm), the same options over all 10,000 taxa.
+    for (const row of rows) expect(row.ours, row.query).toBe(row.plain);
+  }, 30_000);
+
+  it.each(misspellings)("still finds %s → %s in the top three among 10,000 taxa", (query, intended) => {
+    expect(padded.length).toBe(10_000);
+    // The intended taxa are the seeded ones of data/plants.csv; the padding is generated
+    // (common practice, no source): a longer list must not crowd out the misspelt name.
+    const top3 = paddedIndex.search(query, 3).map((hit) => hit.taxon);
+    expect(top3).toContain(seededTaxon(intended));
+  });
+
+  it("gives every taxon it ranks the score fuse.js gives it over the whole list", () => {
+    const whole = createTaxonIndex(padded, { candidateCap: Infinity });
+    for (const [query] of misspellings) {
+      const wholeScores = new Map(whole.search(query, padded.length).map((hit) => [hit.taxon.id, hit.score]));
+      // fuse.js (npm) over the whole list scores each taxon by its own names alone.
+      for (const hit of paddedIndex.search(query, 10)) expect(hit.score, `${query} → ${hit.matchedName}`).toBe(wholeScores.get(hit.taxon.id));
+    }
+  }, 30_000);
+
+  it("keeps literal hits ahead of fuzzy ones on a large checklist", () => {
+    // Common practice, no source: a person who types the start of a name expects that name first.
+    const hits = paddedIndex.search("blood", 10);
+    expect(hits[0]?.taxon.scientificName).toBe("Sanguinaria canadensis");
+    expect(hits.map((h) => h.score)).toEqual([...hits.map((h) => h.score)].sort((a, b) => a - b));
   });
 });
 

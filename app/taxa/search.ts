@@ -42,17 +42,18 @@ export const taxonFuseOptions: IFuseOptions<SearchableTaxon> = {
 };
 
 /**
- * How many taxa fuse.js ranks per query at most. fuse.js costs about the same per name, so this
- * bounds a keystroke's cost whatever the size of the checklist; 300 keeps a 10,000-taxon
- * checklist well under 8 ms per query on a small machine (see "Benchmarks" in DEVELOPERS.md)
- * while leaving room for every taxon that shares most of its letter groups with the query.
+ * How many taxa fuse.js ranks per query at most (fewer for long queries, see
+ * PASSES_AT_FULL_CAP). fuse.js's cost grows with the names it is given, so this bounds a
+ * keystroke's cost whatever the size of the checklist: on a 10,000-taxon checklist it keeps
+ * the 95th percentile under 8 ms on the 2-core development machine (see "Benchmarks" in
+ * DEVELOPERS.md), with room to spare for every taxon that shares most of its letter groups
+ * with the query.
  */
 export const DEFAULT_CANDIDATE_CAP = 300;
 
 export interface TaxonIndexOptions {
   /** `Infinity` lets fuse.js rank the whole checklist: the reference the narrowing is measured against. */
   candidateCap?: number;
-  minShare?: number;
 }
 
 export const normaliseName = (text: string) =>
@@ -67,8 +68,23 @@ interface NameEntry<T> {
   field: MatchedField;
 }
 
-/** Up to this query length the query is cut into letter pairs rather than triples: a four-letter query has only two triples. */
-const PAIRS_UP_TO = 4;
+/** Added to fuse.js's score so that every fuzzy hit ranks behind every literal one (those score 0 to 0.003). */
+const FUZZY_FLOOR = 0.01;
+
+/**
+ * Up to this length the query is cut into letter pairs rather than triples: two swapped letters
+ * in the middle of a six-letter query break all four of its triples but only three of its five
+ * pairs.
+ */
+const PAIRS_UP_TO = 6;
+
+/**
+ * fuse.js goes over a name once for each number of edits it still allows, up to 0.4 × the
+ * query's length, so a long query costs more per candidate. Queries of up to nine letters
+ * (at most four passes) get the whole cap; longer ones proportionally fewer candidates, which
+ * they can afford: more letter triples tell the close names from the rest more sharply.
+ */
+const PASSES_AT_FULL_CAP = 4;
 
 /**
  * A search index over a checklist. Exact and prefix matches of any name come first (what a
@@ -76,25 +92,33 @@ const PAIRS_UP_TO = 4;
  * misspelt name still finds its taxon.
  *
  * fuse.js compares the query with every name it is given, so it is given only candidates: the
- * taxa with a name sharing the most letter pairs or triples with the query. fuse.js scores each
- * taxon from its own names alone, so a candidate gets the same score and rank it would get
- * among the whole checklist; what the narrowing can lose is a taxon that fuse.js would have
- * matched but that is not a candidate. That can happen in theory: within the threshold of 0.4
- * a five-letter query may carry two edits, enough to break every triple it shares with the
- * name, and a taxon sharing no pair or triple is never a candidate; and when more than the cap
- * share as many groups as a good hit, some of them are cut. Such hits are the weakest fuse.js
- * finds (most edits for their length) and rank below the candidates that share more; the
- * benchmark (scripts/bench/picker.ts) and the tests count the queries whose results differ from
- * fuse.js over the whole checklist and the misspellings whose taxon drops out of the top three.
+ * taxa with a name sharing the most letter pairs or triples with the query. fuse.js scores a
+ * taxon from its own names alone, and ties keep its order, so each candidate gets the score
+ * and place it would get among the whole checklist (the tests check the scores). What the
+ * narrowing can lose is a taxon fuse.js would have matched that is not a candidate, and that
+ * can happen: fuse.js allows up to 0.4 edits per letter of the query, enough for a slip to
+ * leave a name sharing one pair with a five-letter query ("shrap" and "sharp" share only "sh"),
+ * or none, and when more taxa than the cap share as many letter groups as that name, the cap
+ * cuts it. Such matches are the weakest fuse.js finds (most edits for their length) and
+ * usually rank below taxa that share more letters. The benchmark (scripts/bench/picker.ts)
+ * measures the loss: misspellings whose taxon plain fuse.js puts in its top three and we do
+ * not, and queries whose top ten differ from fuse.js ranking the whole checklist.
  */
 export function createTaxonIndex<T extends SearchableTaxon>(taxa: readonly T[], options: TaxonIndexOptions = {}) {
   const candidateCap = options.candidateCap ?? DEFAULT_CANDIDATE_CAP;
-  const minShare = options.minShare ?? 0;
   const names: NameEntry<T>[] = taxa.flatMap((taxon, taxonIndex) => [
     { taxon, taxonIndex, name: taxon.scientificName, normalised: normaliseName(taxon.scientificName), field: "scientificName" as const },
     ...taxon.vernacularNames.map((name) => ({ taxon, taxonIndex, name, normalised: normaliseName(name), field: "vernacularName" as const })),
     ...(taxon.synonyms ?? []).map((name) => ({ taxon, taxonIndex, name, normalised: normaliseName(name), field: "synonym" as const })),
   ]);
+  const positionOf = new Map(taxa.map((taxon, i) => [taxon.id, i]));
+  // Literal hits that tie read best in alphabetical order; fuzzy hits that tie keep fuse.js's
+  // order (the checklist's), so that narrowing never reorders what fuse.js would have ranked.
+  const byRank = (a: TaxonHit<T>, b: TaxonHit<T>) =>
+    a.score - b.score ||
+    (a.score < FUZZY_FLOOR
+      ? a.taxon.scientificName.localeCompare(b.taxon.scientificName)
+      : positionOf.get(a.taxon.id)! - positionOf.get(b.taxon.id)!);
   const pairs = gramIndex(names, 2);
   const triples = gramIndex(names, 3);
   // fuse.js's own record of every taxon (names and their length norms), made once, so that a
@@ -105,9 +129,9 @@ export function createTaxonIndex<T extends SearchableTaxon>(taxa: readonly T[], 
 
   // Counters reused by every query rather than allocated per keystroke; all zero between queries.
   const sharedByName = new Uint16Array(names.length);
+  const taxonOfName = Int32Array.from(names, (entry) => entry.taxonIndex);
   const bestByTaxon = new Uint16Array(taxa.length);
   const totalByTaxon = new Uint16Array(taxa.length);
-  const MODE = process.env.MODE ?? "A";
 
   function literalHits(query: string): TaxonHit<T>[] {
     const best = new Map<number, TaxonHit<T>>();
@@ -125,12 +149,16 @@ export function createTaxonIndex<T extends SearchableTaxon>(taxa: readonly T[], 
     return [...best.values()];
   }
 
+  /** Letter pairs for short queries, triples for longer ones, and the index of names by them. */
+  function gramsFor(query: string) {
+    return query.length > PAIRS_UP_TO ? { size: 3, index: triples } : { size: 2, index: pairs };
+  }
+
   /** A name containing the query contains each of its letter groups, so the rarest group's names are enough to look at. */
   function namesThatMayContain(query: string): Iterable<NameEntry<T>> {
-    const index = query.length > PAIRS_UP_TO ? triples : pairs;
-    const size = query.length > PAIRS_UP_TO ? 3 : 2;
+    const { size, index } = gramsFor(query);
     if (query.length < size) return names;
-    let rarest: Int32Array | undefined;
+    let rarest: number[] | undefined;
     for (const gram of gramsOf(query, size)) {
       const list = index.get(gram);
       if (!list) return [];
@@ -139,46 +167,58 @@ export function createTaxonIndex<T extends SearchableTaxon>(taxa: readonly T[], 
     return Array.from(rarest ?? [], (entry) => names[entry]!);
   }
 
-  /** The taxa whose best name shares the most letter groups with the query, best first, at most `candidateCap`. */
+  function capFor(queryLength: number): number {
+    const passes = Math.floor((taxonFuseOptions.threshold ?? 0.6) * queryLength) + 1;
+    return Math.min(candidateCap, Math.floor((candidateCap * PASSES_AT_FULL_CAP) / passes));
+  }
+
+  /**
+   * The taxa whose best name shares the most letter groups with the query, at most
+   * `capFor(query.length)`. Among taxa whose best names share equally many, those whose other
+   * names share more come first: fuse.js multiplies the scores of every name that matches, so
+   * a taxon matching in several names ranks higher than one matching equally well in one.
+   */
   function candidates(query: string): number[] {
-    const size = query.length > PAIRS_UP_TO ? 3 : 2;
-    const index = size === 3 ? triples : pairs;
+    const cap = capFor(query.length);
+    const { size, index } = gramsFor(query);
     const grams = gramsOf(query, size);
     const touchedNames: number[] = [];
     for (const gram of grams) {
-      for (const entry of index.get(gram) ?? []) {
-        if (sharedByName[entry]++ === 0) touchedNames.push(entry);
+      const list = index.get(gram);
+      if (!list) continue;
+      for (let i = 0; i < list.length; i++) {
+        const entry = list[i]!;
+        const shared = sharedByName[entry]!;
+        if (shared === 0) touchedNames.push(entry);
+        sharedByName[entry] = shared + 1;
       }
     }
-    // fuse.js scores each name on its own, so a taxon counts by its best name, not by the
-    // letters its names share between them.
     const touchedTaxa: number[] = [];
-    for (const entry of touchedNames) {
+    for (let i = 0; i < touchedNames.length; i++) {
+      const entry = touchedNames[i]!;
       const shared = sharedByName[entry]!;
       sharedByName[entry] = 0;
-      const taxonIndex = names[entry]!.taxonIndex;
+      const taxonIndex = taxonOfName[entry]!;
       if (bestByTaxon[taxonIndex] === 0) touchedTaxa.push(taxonIndex);
       if (shared > bestByTaxon[taxonIndex]!) bestByTaxon[taxonIndex] = shared;
-      totalByTaxon[taxonIndex] += shared;
+      totalByTaxon[taxonIndex] = totalByTaxon[taxonIndex]! + shared;
     }
-    const byShared: number[][] = Array.from({ length: grams.size + 1 }, () => []);
-    if (MODE !== "A") {
-      const key = (t: number) => MODE === "B" ? bestByTaxon[t]! * 1000 + totalByTaxon[t]! : totalByTaxon[t]! * 1000 + bestByTaxon[t]!;
-      const sorted = touchedTaxa.sort((a, b) => key(b) - key(a) || a - b).slice(0, candidateCap);
-      for (const t of touchedTaxa) { bestByTaxon[t] = 0; totalByTaxon[t] = 0; }
-      return sorted;
+    const byBest: number[][] = Array.from({ length: grams.size + 1 }, () => []);
+    for (const taxonIndex of touchedTaxa) byBest[bestByTaxon[taxonIndex]!]!.push(taxonIndex);
+    const chosen: number[] = [];
+    for (let best = grams.size; best >= 1 && chosen.length < cap; best--) {
+      const tied = byBest[best]!;
+      if (chosen.length + tied.length > cap) {
+        // Only the group cut by the cap needs an order; the checklist's breaks the last ties
+        // so that the same query always gets the same candidates.
+        tied.sort((a, b) => totalByTaxon[b]! - totalByTaxon[a]! || a - b);
+        tied.length = cap - chosen.length;
+      }
+      chosen.push(...tied);
     }
     for (const taxonIndex of touchedTaxa) {
-      byShared[bestByTaxon[taxonIndex]!]!.push(taxonIndex);
       bestByTaxon[taxonIndex] = 0;
       totalByTaxon[taxonIndex] = 0;
-    }
-    const chosen: number[] = [];
-    const floor = Math.max(1, Math.ceil(grams.size * minShare));
-    for (let shared = grams.size; shared >= floor && chosen.length < candidateCap; shared--) {
-      // Within a tie, checklist order: the same query always gets the same candidates.
-      const tied = byShared[shared]!.sort((a, b) => a - b);
-      chosen.push(...tied.slice(0, candidateCap - chosen.length));
     }
     return chosen;
   }
@@ -206,8 +246,7 @@ export function createTaxonIndex<T extends SearchableTaxon>(taxa: readonly T[], 
           taxon: result.item as T,
           matchedName: match?.value ?? result.item.scientificName,
           matchedField: FIELD_OF_KEY[match?.key ?? "scientificName"] ?? "scientificName",
-          // Keep fuzzy scores behind every literal hit.
-          score: 0.01 + (result.score ?? 1),
+          score: FUZZY_FLOOR + (result.score ?? 1),
         };
       });
   }
@@ -226,9 +265,7 @@ export function createTaxonIndex<T extends SearchableTaxon>(taxa: readonly T[], 
         const previous = hits.get(hit.taxon.id);
         if (!previous || hit.score < previous.score) hits.set(hit.taxon.id, hit);
       }
-      return [...hits.values()]
-        .sort((a, b) => a.score - b.score || a.taxon.scientificName.localeCompare(b.taxon.scientificName))
-        .slice(0, limit);
+      return [...hits.values()].sort(byRank).slice(0, limit);
     },
   };
 }
@@ -239,17 +276,19 @@ function gramsOf(text: string, size: number): Set<string> {
   return grams;
 }
 
-/** For each letter group, the names (positions in `names`) that contain it, each once. */
-function gramIndex(names: readonly { normalised: string }[], size: number): Map<string, Int32Array> {
+/** For each letter group, the names (positions in `names`, ascending) that contain it, each once. */
+function gramIndex(names: readonly { normalised: string }[], size: number): Map<string, number[]> {
   const lists = new Map<string, number[]>();
   names.forEach(({ normalised }, entry) => {
-    for (const gram of gramsOf(normalised, size)) {
+    for (let i = 0; i + size <= normalised.length; i++) {
+      const gram = normalised.slice(i, i + size);
       const list = lists.get(gram);
-      if (list) list.push(entry);
-      else lists.set(gram, [entry]);
+      if (!list) lists.set(gram, [entry]);
+      // Names are added in order, so a gram seen before in this name ends its list.
+      else if (list[list.length - 1] !== entry) list.push(entry);
     }
   });
-  return new Map([...lists].map(([gram, list]) => [gram, Int32Array.from(list)]));
+  return lists;
 }
 
 function bestMatch(matches: readonly FuseResultMatch[] | undefined) {

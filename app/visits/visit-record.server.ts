@@ -12,6 +12,8 @@ export function toVisitRecord(visit: Visit, photos: Photo[], determinations: Det
     occurrenceID: `visitwort:visit:${visit.id}`,
     basisOfRecord: "HumanObservation",
     clientSubmissionId: visit.clientSubmissionId,
+    // Send it back with a determination: it tells whether somebody else acted in between.
+    version: visit.version,
     recordedBy: visit.recorder.name,
     eventDate: visit.eventDate.toISOString(),
     eventLocalDate: String(visit.eventLocalDate),

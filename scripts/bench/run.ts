@@ -3,6 +3,7 @@
  * (minutes, thresholds enforced); `--smoke` for a small run that only shows the code still works.
  * A bench is a module exporting a `Bench`; add it to the list below.
  */
+import os from "node:os";
 import { pickerBench } from "./picker.ts";
 
 export type BenchSize = "full" | "smoke";
@@ -22,6 +23,9 @@ export interface Bench {
 const benches: Bench[] = [pickerBench];
 
 const size: BenchSize = process.argv.includes("--smoke") ? "smoke" : "full";
+// Latencies mean little without the machine and what else was running on it.
+const load = () => os.loadavg().map((n) => n.toFixed(2)).join(" ");
+console.log(`${os.cpus().length} cores, ${Math.round(os.totalmem() / 2 ** 30)} GiB, node ${process.version}; load average ${load()}\n`);
 let failed = false;
 for (const bench of benches) {
   console.log(`## ${bench.name} (${size})`);
@@ -31,4 +35,5 @@ for (const bench of benches) {
   if (failures.length > 0) failed = true;
   console.log("");
 }
+console.log(`load average after: ${load()}`);
 process.exitCode = failed ? 1 : 0;

@@ -49,3 +49,17 @@ describe("the plant checklist in a browser", () => {
     await page.close();
   });
 });
+
+describe("a plant's page", () => {
+  it("shows when bees were seen on it and which, from the records", async () => {
+    const search = await (await fetch(`${baseUrl}/api/taxa/search?q=Salix%20discolor&limit=1`)).json();
+    const page = await browser.newPage({ viewport: { width: 360, height: 780 } });
+    await page.goto(`${baseUrl}/checklist/${search.results[0].id}`);
+    const records = page.getByRole("region", { name: "What the records say" });
+    await expect.poll(() => records.textContent()).toMatch(/\d+ visits recorded, \d+ verified by a botanist/);
+    expect(await records.getByRole("img").getAttribute("aria-label")).toMatch(/^Visits by month — (March|April|May)/);
+    expect(await records.textContent()).toContain("Bombus");
+    await page.screenshot({ path: path.join(screenshotDir, "taxon-360.png"), fullPage: true });
+    await page.close();
+  });
+});

@@ -28,6 +28,11 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   "routes/cautions.tsx": { sample: "/cautions", access: "anyone" },
   "routes/checklist/checklist.tsx": { sample: "/checklist", access: "anyone" },
   "routes/checklist/taxon.tsx": { sample: "/checklist/1", access: "anyone" },
+  "routes/checklist/export.ts": { sample: "/checklist/export.csv", access: "anyone" },
+  // The writes below are refused before they are read; allowed viewers are not sent them.
+  "routes/checklist/new.tsx": { sample: "/checklist/new", access: ["botanist"], write: { intent: "save", scientificName: "Matrix testii" } },
+  "routes/checklist/edit.tsx": { sample: "/checklist/1/edit", access: ["botanist"], write: { intent: "save", scientificName: "Matrix testii" } },
+  "routes/checklist/import.tsx": { sample: "/checklist/import", access: ["botanist"], write: { intent: "preview", csv: "scientificName\n" } },
   "routes/auth/login.tsx": { sample: "/login", access: "anonymous" },
   "routes/auth/logout.ts": { sample: "/logout", access: "redirect" },
   "routes/auth/account.tsx": { sample: "/account", access: "signed-in", write: { intent: "create-token", label: "matrix test" } },
@@ -48,6 +53,9 @@ export const ROUTE_ACCESS: Record<string, RouteAccess> = {
   "routes/api/visit.ts": { sample: "/api/visits/1", access: ["recorder", "botanist", "bee_verifier"] },
   // POST only: a GET from an allowed caller is told to use POST.
   "routes/api/photo-uploads.ts": { sample: "/api/photos/uploads", access: ["recorder"], okStatus: 405, write: { contentType: "image/jpeg" } },
+  "routes/determinations/queue.tsx": { sample: "/determinations", access: ["botanist", "bee_verifier"], write: { visitId: "1", subject: "plant", action: "confirm", version: "1" } },
+  // POST only; a GET from an allowed caller is told where the history is.
+  "routes/api/visit-determinations.ts": { sample: "/api/visits/1/determinations", access: ["botanist", "bee_verifier"], okStatus: 405, write: { subject: "plant" } },
   "routes/admin/users.tsx": { sample: "/admin/users", access: ["coordinator"], write: { intent: "invite", email: "matrix@example.org", roles: "recorder" } },
   "routes/dev/mail.tsx": { sample: "/dev/mail", access: ["coordinator"] },
   "routes/api/taxa.ts": { sample: "/api/taxa", access: "anyone" },

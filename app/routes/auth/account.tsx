@@ -6,14 +6,17 @@ import { AccountError, changePassword, createApiToken, listApiTokens, revokeApiT
 import { apiTokenForm, changePasswordForm, fieldErrors, formToObject, profileForm, type FieldErrors } from "~/auth/account-schemas";
 import { endAllSessions, endSession } from "~/auth/session.server";
 import { ROLE_DUTIES, ROLE_LABELS } from "~/auth/roles";
+import { noticePreferenceOf, setNoticePreference } from "~/auth/accounts.server";
 import { Field, FormMessage, PrimaryButton, SecondaryButton } from "~/components/forms";
 
 export const meta: Route.MetaFunction = () => [{ title: "Your account · Visitwort" }];
 
 export async function loader({ request, context }: Route.LoaderArgs) {
   const user = requireUser(request, context);
-  const tokens = await listApiTokens(context.get(entityManagerContext), user.id);
-  return { user: { name: user.name, email: user.email, roles: user.roles }, tokens };
+  const em = context.get(entityManagerContext);
+  const tokens = await listApiTokens(em, user.id);
+  const noticePreference = await noticePreferenceOf(em, user.id);
+  return { user: { name: user.name, email: user.email, roles: user.roles, noticePreference }, tokens };
 }
 
 type ActionResult = { intent: string; message?: string; error?: string; fields?: FieldErrors; newToken?: string };
@@ -37,6 +40,12 @@ export async function action({ request, context }: Route.ActionArgs) {
         if (!parsed.success) return refuse({ intent, fields: fieldErrors(parsed.error) });
         await changePassword(em, user.id, { ...parsed.data, keepSessionId: user.sessionId });
         return { intent, message: "Password changed. Your other sessions were signed out." } satisfies ActionResult;
+      }
+      case "notices": {
+        const preference = String(form.get("noticePreference"));
+        if (preference !== "each" && preference !== "daily_digest" && preference !== "none") return refuse({ intent, error: "Choose how often to hear from us." });
+        await setNoticePreference(em, user.id, preference);
+        return { intent, message: "Saved." } satisfies ActionResult;
       }
       case "sign-out-everywhere": {
         await endAllSessions(em, user.id);
@@ -85,6 +94,24 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
           <input type="hidden" name="intent" value="profile" />
           <Field label="Name" name="name" defaultValue={user.name} autoComplete="name" errors={for_("profile")?.fields?.name} />
           <Field label="E-mail address" name="email" type="email" defaultValue={user.email} autoComplete="email" errors={for_("profile")?.fields?.email} />
+          <PrimaryButton disabled={busy}>Save</PrimaryButton>
+        </Form>
+      </section>
+
+      <section className="space-y-3">
+        <h2 className="text-xl">What became of my visits</h2>
+        {for_("notices")?.message && <FormMessage tone="success">{for_("notices")?.message}</FormMessage>}
+        <Form method="post" className="space-y-3">
+          <input type="hidden" name="intent" value="notices" />
+          <fieldset className="space-y-1">
+            <legend className="font-semibold">When a botanist or bee verifier decides about one of my visits, e-mail me</legend>
+            {([["each", "each time"], ["daily_digest", "once a day, a summary"], ["none", "never"]] as const).map(([value, label]) => (
+              <label key={value} className="flex min-h-11 items-center gap-2">
+                <input type="radio" name="noticePreference" value={value} defaultChecked={user.noticePreference === value} className="h-5 w-5 accent-moss" />
+                {label}
+              </label>
+            ))}
+          </fieldset>
           <PrimaryButton disabled={busy}>Save</PrimaryButton>
         </Form>
       </section>

@@ -1,5 +1,7 @@
 import { useMemo, useState } from "react";
-import { Form, Link, useSearchParams, type ShouldRevalidateFunctionArgs } from "react-router";
+import { Form, Link, useRouteLoaderData, useSearchParams, type ShouldRevalidateFunctionArgs } from "react-router";
+import type { loader as rootLoader } from "~/root";
+import { hasAnyRole } from "~/auth/roles";
 import type { Route } from "./+types/checklist";
 import { entityManagerContext } from "~/db/orm.server";
 import { listPlantTaxa } from "~/taxa/taxa.server";
@@ -67,6 +69,8 @@ export default function Checklist({ loaderData }: Route.ComponentProps) {
           introduced, with the months they bloom.
         </p>
       </header>
+
+      <StewardshipLinks />
 
       <Form method="get" role="search" className="space-y-3" onSubmit={(event) => event.preventDefault()}>
         <div>
@@ -154,6 +158,28 @@ export default function Checklist({ loaderData }: Route.ComponentProps) {
         )}
       </ul>
     </div>
+  );
+}
+
+const stewardLink = "inline-flex min-h-11 items-center rounded-md border border-moss px-4 font-semibold text-moss-deep no-underline hover:bg-moss/10";
+
+/** For the people who keep the checklist: add, import, export. */
+function StewardshipLinks() {
+  const roles = useRouteLoaderData<typeof rootLoader>("root")?.user?.roles;
+  if (!roles || !hasAnyRole(roles, ["botanist"])) return null;
+  return (
+    <nav aria-label="Checklist stewardship" className="flex flex-wrap gap-2">
+      <Link to="/checklist/new" className={stewardLink}>
+        Add a taxon
+      </Link>
+      <Link to="/checklist/import" className={stewardLink}>
+        Import
+      </Link>
+      {/* A file download, not a page: the browser fetches it itself. */}
+      <a href="/checklist/export.csv" download className={stewardLink}>
+        Export CSV
+      </a>
+    </nav>
   );
 }
 

@@ -1,4 +1,5 @@
-import { data, Link } from "react-router";
+import { data, Link, useRouteLoaderData } from "react-router";
+import { hasAnyRole, type Role } from "~/auth/roles";
 import type { Route } from "./+types/visit";
 import { entityManagerContext } from "~/db/orm.server";
 import { requireUser } from "~/auth/permissions.server";
@@ -28,6 +29,7 @@ function placeInWords(latitude: number, longitude: number) {
 
 export default function VisitPage({ loaderData }: Route.ComponentProps) {
   const { visit, justRecorded } = loaderData;
+  const roles = (useRouteLoaderData("root") as { user: { roles: Role[] } | null } | undefined)?.user?.roles ?? [];
   const time = new Date(visit.eventDate).toLocaleTimeString("en-GB", { hour: "2-digit", minute: "2-digit", timeZone: visit.eventTimeZone || "UTC" });
   return (
     <article className="mx-auto max-w-2xl space-y-6">
@@ -93,7 +95,13 @@ export default function VisitPage({ loaderData }: Route.ComponentProps) {
       </section>
 
       <section>
-        <h2 className="mb-2 text-xl">Determinations</h2>
+        <div className="mb-2 flex flex-wrap items-baseline justify-between gap-2">
+          <h2 className="text-xl">Determinations</h2>
+          <span className="flex gap-3 text-sm">
+            {hasAnyRole(roles, ["botanist"]) && <Link to={`/determinations?subject=plant&visit=${visit.id}`}>Determine the plant</Link>}
+            {hasAnyRole(roles, ["bee_verifier"]) && <Link to={`/determinations?subject=bee&visit=${visit.id}`}>Determine the bee</Link>}
+          </span>
+        </div>
         <ol className="space-y-2 border-l-2 border-moss/30 pl-4">
           {visit.determinations.map((d) => (
             <li key={d.id}>

@@ -1,0 +1,30 @@
+import { describe, expect, it } from "vitest";
+import { reportPickerBench, runPickerBench } from "../../scripts/bench/picker.ts";
+
+// The benchmarks' small runs: they prove the bench code still runs and reports, not that
+// anything is fast (the suite shares the machine with the database and the browser tests).
+describe("benchmark smoke runs", () => {
+  it("the taxon picker search reports latencies and hit rates", () => {
+    const result = runPickerBench("smoke");
+    expect(result.taxa).toBe(1_000);
+    expect(result.queries).toBe(30);
+    expect(result.misspellings).toBeGreaterThan(0);
+    for (const figures of [result.ours, result.plainFuse]) {
+      for (const value of [figures.p50, figures.p95, figures.max]) {
+        expect(Number.isFinite(value)).toBe(true);
+        expect(value).toBeGreaterThanOrEqual(0);
+      }
+      // Common practice, no source: a percentile never exceeds the maximum.
+      expect(figures.p50).toBeLessThanOrEqual(figures.p95);
+      expect(figures.p95).toBeLessThanOrEqual(figures.max);
+      expect(figures.top3HitRate).toBeGreaterThanOrEqual(0);
+      expect(figures.top3HitRate).toBeLessThanOrEqual(1);
+    }
+    expect(Number.isInteger(result.misspellingsLost)).toBe(true);
+    expect(Number.isInteger(result.queriesDifferingFromWholeList)).toBe(true);
+    // The smoke size checks no budget: timings here say nothing about the machine's speed.
+    const report = reportPickerBench(result, false);
+    expect(report.failures).toEqual([]);
+    expect(report.lines.join("\n")).toMatch(/p95/);
+  });
+});
