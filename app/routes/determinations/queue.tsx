@@ -139,7 +139,7 @@ export default function Queue({ loaderData }: Route.ComponentProps) {
         <p className="rounded-lg border border-ink/10 bg-white/50 p-6 text-center">Nothing waits here. Thank you.</p>
       ) : (
         <div className="grid gap-4 lg:grid-cols-[18rem_1fr]">
-          <ol aria-label="Waiting visits" className="max-h-[70vh] space-y-1 overflow-y-auto rounded-lg border border-ink/10 bg-white/40 p-1 lg:block">
+          <ol aria-label="Waiting visits" className="max-h-48 space-y-1 overflow-y-auto lg:max-h-[70vh] rounded-lg border border-ink/10 bg-white/40 p-1 lg:block">
             {queue.items.map((i) => (
               <li key={i.id}>
                 <button
