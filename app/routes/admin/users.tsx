@@ -11,6 +11,7 @@ import {
   type SortingState,
 } from "@tanstack/react-table";
 import type { Route } from "./+types/users";
+import { SortableHeader } from "~/components/SortableHeader";
 import { entityManagerContext } from "~/db/orm.server";
 import { requireUser } from "~/auth/permissions.server";
 import { AccountError, inviteUser, listUsers, publicOrigin, setRoles, setStatus } from "~/auth/accounts.server";
@@ -222,21 +223,7 @@ export default function Users({ loaderData, actionData }: Route.ComponentProps) 
             <thead className="bg-paper-deep/70">
               {table.getHeaderGroups().map((group) => (
                 <tr key={group.id}>
-                  {group.headers.map((header) => {
-                    const sorted = header.column.getIsSorted();
-                    return (
-                      <th key={header.id} className="px-3 py-2 font-semibold" aria-sort={sorted ? (sorted === "asc" ? "ascending" : "descending") : undefined}>
-                        {header.column.getCanSort() ? (
-                          <button type="button" onClick={header.column.getToggleSortingHandler()} className="inline-flex min-h-11 items-center gap-1">
-                            {flexRender(header.column.columnDef.header, header.getContext())}
-                            <span aria-hidden="true">{sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : "↕"}</span>
-                          </button>
-                        ) : (
-                          flexRender(header.column.columnDef.header, header.getContext())
-                        )}
-                      </th>
-                    );
-                  })}
+                  {group.headers.map((header) => <SortableHeader key={header.id} header={header} />)}
                 </tr>
               ))}
             </thead>

@@ -2,6 +2,7 @@ import { useMemo } from "react";
 import { Form, Link, useNavigation, useSearchParams } from "react-router";
 import { createColumnHelper, flexRender, getCoreRowModel, useReactTable, type SortingState } from "@tanstack/react-table";
 import type { Route } from "./+types/visits";
+import { SortableHeader } from "~/components/SortableHeader";
 import { entityManagerContext } from "~/db/orm.server";
 import { requireUser } from "~/auth/permissions.server";
 import { listVisits, type VisitListRow } from "~/visits/visits.server";
@@ -205,22 +206,9 @@ export default function Visits({ loaderData }: Route.ComponentProps) {
           <thead className="bg-paper-deep/70">
             {table.getHeaderGroups().map((group) => (
               <tr key={group.id}>
-                {group.headers.map((header) => {
-                  const sortable = header.column.getCanSort() && (VISIT_SORT_KEYS as readonly string[]).includes(header.column.id);
-                  const sorted = header.column.getIsSorted();
-                  return (
-                    <th key={header.id} className="px-3 py-2 font-semibold" aria-sort={sorted ? (sorted === "asc" ? "ascending" : "descending") : undefined}>
-                      {sortable ? (
-                        <button type="button" onClick={header.column.getToggleSortingHandler()} className="inline-flex min-h-11 items-center gap-1">
-                          {flexRender(header.column.columnDef.header, header.getContext())}
-                          <span aria-hidden="true">{sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : "↕"}</span>
-                        </button>
-                      ) : (
-                        flexRender(header.column.columnDef.header, header.getContext())
-                      )}
-                    </th>
-                  );
-                })}
+                {group.headers.map((header) => (
+                  <SortableHeader key={header.id} header={header} sortable={header.column.getCanSort() && (VISIT_SORT_KEYS as readonly string[]).includes(header.column.id)} />
+                ))}
               </tr>
             ))}
           </thead>
