@@ -42,8 +42,8 @@ export const taxonFuseOptions: IFuseOptions<SearchableTaxon> = {
 };
 
 /**
- * How many taxa fuse.js ranks per query at most (fewer for long queries, see
- * PASSES_AT_FULL_CAP). fuse.js's cost grows with the names it is given, so this bounds a
+ * How many taxa fuse.js ranks for a query of eight or nine letters (others get more or fewer,
+ * see PASSES_AT_FULL_CAP). fuse.js's cost grows with the names it is given, so this bounds a
  * keystroke's cost whatever the size of the checklist: on a 10,000-taxon checklist it keeps
  * the 95th percentile under 8 ms on the 2-core development machine (see "Benchmarks" in
  * DEVELOPERS.md), with room to spare for every taxon that shares most of its letter groups
@@ -80,9 +80,10 @@ const PAIRS_UP_TO = 6;
 
 /**
  * fuse.js goes over a name once for each number of edits it still allows, up to 0.4 × the
- * query's length, so a long query costs more per candidate. Queries of up to nine letters
- * (at most four passes) get the whole cap; longer ones proportionally fewer candidates, which
- * they can afford: more letter triples tell the close names from the rest more sharply.
+ * query's length, so a query's cost is about its candidates times its passes. Queries of eight
+ * or nine letters (four passes) get `candidateCap` candidates; shorter queries more, which
+ * they need (a few letter pairs are shared by many names), and longer ones fewer, which they
+ * can afford (many letter triples tell the close names from the rest).
  */
 const PASSES_AT_FULL_CAP = 4;
 
@@ -96,13 +97,13 @@ const PASSES_AT_FULL_CAP = 4;
  * taxon from its own names alone, and ties keep its order, so each candidate gets the score
  * and place it would get among the whole checklist (the tests check the scores). What the
  * narrowing can lose is a taxon fuse.js would have matched that is not a candidate, and that
- * can happen: fuse.js allows up to 0.4 edits per letter of the query, enough for a slip to
- * leave a name sharing one pair with a five-letter query ("shrap" and "sharp" share only "sh"),
- * or none, and when more taxa than the cap share as many letter groups as that name, the cap
- * cuts it. Such matches are the weakest fuse.js finds (most edits for their length) and
- * usually rank below taxa that share more letters. The benchmark (scripts/bench/picker.ts)
+ * can happen: fuse.js allows edits up to 0.4 × the query's length, enough for a slip to leave
+ * a name sharing one letter pair with a five-letter query ("shrap" and "sharp" share only
+ * "sh"), or none, and when more taxa than the cap share as many letter groups as that name,
+ * the cap cuts it. Such matches are the weakest fuse.js finds (most edits for their length)
+ * and usually rank below taxa that share more letters. The benchmark (scripts/bench/picker.ts)
  * measures the loss: misspellings whose taxon plain fuse.js puts in its top three and we do
- * not, and queries whose top ten differ from fuse.js ranking the whole checklist.
+ * not, and queries whose top three or top ten differ from fuse.js ranking the whole checklist.
  */
 export function createTaxonIndex<T extends SearchableTaxon>(taxa: readonly T[], options: TaxonIndexOptions = {}) {
   const candidateCap = options.candidateCap ?? DEFAULT_CANDIDATE_CAP;
@@ -125,6 +126,9 @@ export function createTaxonIndex<T extends SearchableTaxon>(taxa: readonly T[], 
   // query's small fuse.js is assembled from records instead of reading every name again.
   const fullIndex = Fuse.createIndex(taxonFuseOptions.keys ?? [], taxa);
   const records = fullIndex.records;
+  // The names as fuse.js reads them (it lowercases, nothing more), for the screen below.
+  const fuseTextsOf = taxa.map((taxon) => [taxon.scientificName, ...taxon.vernacularNames, ...(taxon.synonyms ?? [])].map((name) => name.toLowerCase()));
+  // A checklist no longer than the cap has nothing to narrow.
   const wholeFuse = candidateCap >= taxa.length ? new Fuse<SearchableTaxon>(taxa, taxonFuseOptions, fullIndex) : undefined;
 
   // Counters reused by every query rather than allocated per keystroke; all zero between queries.
@@ -169,7 +173,7 @@ export function createTaxonIndex<T extends SearchableTaxon>(taxa: readonly T[], 
 
   function capFor(queryLength: number): number {
     const passes = Math.floor((taxonFuseOptions.threshold ?? 0.6) * queryLength) + 1;
-    return Math.min(candidateCap, Math.floor((candidateCap * PASSES_AT_FULL_CAP) / passes));
+    return Math.floor((candidateCap * PASSES_AT_FULL_CAP) / passes);
   }
 
   /**
@@ -223,9 +227,23 @@ export function createTaxonIndex<T extends SearchableTaxon>(taxa: readonly T[], 
     return chosen;
   }
 
+  /**
+   * fuse.js matches a name only if some stretch of it is within 0.4 × the query's length edits
+   * of the query, so a candidate none of whose names is that close can go before fuse.js sees
+   * it: its results do not change, and it is spared its slowest work, for a name that does not
+   * match costs it a pass for every edit it allows. fuse.js cuts queries over 32 letters into
+   * pieces and matches on any piece; those are not screened.
+   */
+  function withinThreshold(query: string, chosen: number[]): number[] {
+    if (query.length > MAX_SCREENED_LENGTH) return chosen;
+    const bits = patternBits(query);
+    const allowed = Math.floor((taxonFuseOptions.threshold ?? 0.6) * query.length);
+    return chosen.filter((taxonIndex) => fuseTextsOf[taxonIndex]!.some((text) => fewestEdits(bits, query.length, text) <= allowed));
+  }
+
   function fuseFor(query: string): Fuse<SearchableTaxon> {
     if (wholeFuse) return wholeFuse;
-    const chosen = candidates(query);
+    const chosen = withinThreshold(query, candidates(query));
     const subset: FuseIndex<SearchableTaxon> = Fuse.parseIndex({
       keys: fullIndex.keys,
       records: chosen.map((taxonIndex, i) => ({ ...records[taxonIndex]!, i })),
@@ -268,6 +286,47 @@ export function createTaxonIndex<T extends SearchableTaxon>(taxa: readonly T[], 
       return [...hits.values()].sort(byRank).slice(0, limit);
     },
   };
+}
+
+/** Myers' algorithm keeps a column of the edit-distance table in the bits of one 32-bit integer. */
+const MAX_SCREENED_LENGTH = 31;
+
+/** For each letter of the pattern, the positions where it occurs, as bits. */
+function patternBits(pattern: string): Map<string, number> {
+  const bits = new Map<string, number>();
+  for (let i = 0; i < pattern.length; i++) bits.set(pattern[i]!, (bits.get(pattern[i]!) ?? 0) | (1 << i));
+  return bits;
+}
+
+/**
+ * The fewest insertions, deletions and substitutions that turn the pattern (of `length` letters,
+ * at most MAX_SCREENED_LENGTH) into some stretch of the text: Myers' bit-parallel algorithm
+ * for approximate string matching (J. ACM 46(3), 1999), named as in the paper. Each letter of
+ * the text moves one column of the edit-distance table along, held as the vertical steps up
+ * (pv) and down (mv) between its cells.
+ */
+function fewestEdits(bits: Map<string, number>, length: number, text: string): number {
+  const last = 1 << (length - 1);
+  let pv = (1 << length) - 1;
+  let mv = 0;
+  let edits = length;
+  let fewest = length;
+  for (let j = 0; j < text.length; j++) {
+    const eq = bits.get(text[j]!) ?? 0;
+    const xv = eq | mv;
+    const xh = (((eq & pv) + pv) ^ pv) | eq;
+    let ph = mv | ~(xh | pv);
+    let mh = pv & xh;
+    if (ph & last) edits++;
+    else if (mh & last) edits--;
+    // A match may start anywhere in the text: the top row stays 0, so no step carries into it.
+    ph <<= 1;
+    mh <<= 1;
+    pv = mh | ~(xv | ph);
+    mv = ph & xv;
+    if (edits < fewest) fewest = edits;
+  }
+  return fewest;
 }
 
 function gramsOf(text: string, size: number): Set<string> {

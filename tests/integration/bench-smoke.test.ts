@@ -22,6 +22,7 @@ describe("benchmark smoke runs", () => {
     }
     expect(Number.isInteger(result.misspellingsLost)).toBe(true);
     expect(Number.isInteger(result.queriesDifferingFromWholeList)).toBe(true);
+    expect(result.topThreesDifferingFromWholeList).toBeLessThanOrEqual(result.queriesDifferingFromWholeList);
     // The smoke size checks no budget: timings here say nothing about the machine's speed.
     const report = reportPickerBench(result, false);
     expect(report.failures).toEqual([]);
