@@ -41,7 +41,8 @@ export default defineConfig({
           // A page can take seconds to settle on a loaded 2-core machine; poll that long.
           expect: { poll: { timeout: 10_000, interval: 100 } },
           env: { VISITWORT_DB: "e2e" },
-          testTimeout: 60_000,
+          // Whole journeys through several pages; a loaded 2-core machine needs the headroom.
+          testTimeout: 180_000,
           hookTimeout: 60_000,
         },
       },
