@@ -2,9 +2,18 @@ import { distance } from "fastest-levenshtein";
 import Fuse from "fuse.js";
 import { describe, expect, it } from "vitest";
 import { DEFAULT_CHECKLIST_FILES } from "~/db/seed.server";
-import { benchQueries, isMisspelling, paddedChecklist } from "../../scripts/bench/picker.ts";
+import { benchQueries, isMisspelling, mulberry32, paddedChecklist } from "../../scripts/bench/picker.ts";
 import { loadChecklists } from "./checklist-import.server";
-import { createTaxonIndex, normaliseName, taxonFuseOptions, type SearchableTaxon, type TaxonHit } from "./search";
+import {
+  MAX_SCREENED_LENGTH,
+  createTaxonIndex,
+  fewestEdits,
+  normaliseName,
+  patternBits,
+  taxonFuseOptions,
+  type SearchableTaxon,
+  type TaxonHit,
+} from "./search";
 
 const plants = loadChecklists(DEFAULT_CHECKLIST_FILES).plants.map((row, i) => ({ id: i + 1, ...row }));
 const index = createTaxonIndex(plants);
@@ -112,8 +121,9 @@ describe("narrowing the candidates before fuse.js ranks them", () => {
   for (const { checklist, taxa, narrowed, queries } of comparisons) {
     it(`finds each misspelt taxon on ${checklist} exactly when plain fuse.js does`, () => {
       const rows = topThree(taxa, narrowed, queries);
-      // fuse.js (npm): the same options over the whole list are the reference; narrowing
-      // only leaves taxa out, so a query answered differently would be a lost hit.
+      // fuse.js (npm): the same options over the whole list are the reference. Ours differs
+      // from it only by taxa the narrowing left out and by literal hits put first; on these
+      // misspellings neither may cost (or, unnoticed, win) a hit.
       for (const row of rows) expect(row.ours, row.query).toBe(row.plain);
       expect(rows.filter((r) => r.ours).length).toBe(rows.filter((r) => r.plain).length);
     }, 30_000);
@@ -136,6 +146,50 @@ describe("narrowing the candidates before fuse.js ranks them", () => {
     }
   }, 30_000);
 
+  describe("the screen before fuse.js", () => {
+    const queries = [
+      ...misspellings.map(([query]) => query),
+      ...benchQueries(plants, 120).map((q) => q.text),
+    ]
+      .map(normaliseName)
+      .filter((q) => q.length >= 3 && q.length <= MAX_SCREENED_LENGTH);
+    const texts = plants.flatMap((p) => [p.scientificName, ...p.vernacularNames, ...p.synonyms]).map((name) => name.toLowerCase());
+
+    it("counts the fewest edits from the query to any stretch of a name", () => {
+      for (const query of queries.slice(0, 40)) {
+        const bits = patternBits(query);
+        for (const text of texts.filter((_, i) => i % 7 === 0)) {
+          // fastest-levenshtein (npm) on every stretch of the name: the slow, plain answer.
+          expect(fewestEdits(bits, query.length, text), `${query} in ${text}`).toBe(anyStretch(text, query));
+        }
+      }
+      // Random strings over a few letters, up to the longest pattern screened: near matches
+      // everywhere, and the top bit of the machine word in use.
+      const random = mulberry32(31);
+      const letters = (length: number) => Array.from({ length }, () => "abc "[Math.floor(random() * 4)]).join("");
+      for (let i = 0; i < 300; i++) {
+        const pattern = letters(1 + (i % MAX_SCREENED_LENGTH));
+        const text = letters(Math.floor(random() * 40));
+        // fastest-levenshtein (npm) on every stretch.
+        expect(fewestEdits(patternBits(pattern), pattern.length, text), `${pattern} in ${text}`).toBe(anyStretch(text, pattern));
+      }
+    }, 30_000);
+
+    it("keeps every name fuse.js matches", () => {
+      let matched = 0;
+      for (const query of queries) {
+        const bits = patternBits(query);
+        for (const text of texts) {
+          // fuse.js (npm): Fuse.match runs its matcher on one name with the search's options.
+          if (!Fuse.match(query, text, taxonFuseOptions).isMatch) continue;
+          matched++;
+          expect(fewestEdits(bits, query.length, text) / query.length, `${query} in ${text}`).toBeLessThanOrEqual(taxonFuseOptions.threshold!);
+        }
+      }
+      expect(matched).toBeGreaterThan(1_000);
+    }, 30_000);
+  });
+
   it("keeps literal hits ahead of fuzzy ones on a large checklist", () => {
     // Common practice, no source: a person who types the start of a name expects that name first.
     const hits = paddedIndex.search("blood", 10);
@@ -151,6 +205,15 @@ function closestStretch(name: string, query: string): number {
     for (let from = 0; from + length <= name.length; from++) {
       best = Math.min(best, distance(name.slice(from, from + length), query));
     }
+  }
+  return best;
+}
+
+/** The edit distance from the query to its closest stretch of the name, trying every stretch. */
+function anyStretch(name: string, query: string): number {
+  let best = query.length;
+  for (let from = 0; from <= name.length; from++) {
+    for (let to = from; to <= name.length; to++) best = Math.min(best, distance(name.slice(from, to), query));
   }
   return best;
 }

@@ -1,4 +1,4 @@
-import Fuse, { type FuseIndex, type FuseResultMatch, type IFuseOptions } from "fuse.js";
+import Fuse, { type FuseResultMatch, type IFuseOptions } from "fuse.js";
 
 /** What the search needs of a taxon; works for plants and bees, in the browser and on the server. */
 export interface SearchableTaxon {
@@ -42,12 +42,11 @@ export const taxonFuseOptions: IFuseOptions<SearchableTaxon> = {
 };
 
 /**
- * How many taxa fuse.js ranks for a query of eight or nine letters (others get more or fewer,
- * see PASSES_AT_FULL_CAP). fuse.js's cost grows with the names it is given, so this bounds a
- * keystroke's cost whatever the size of the checklist: on a 10,000-taxon checklist it keeps
- * the 95th percentile under 8 ms on the 2-core development machine (see "Benchmarks" in
- * DEVELOPERS.md), with room to spare for every taxon that shares most of its letter groups
- * with the query.
+ * How many candidates a query gets at most (long ones get fewer, see PASSES_AT_FULL_CAP).
+ * fuse.js's cost grows with the names it is given, so this bounds a keystroke's cost whatever
+ * the size of the checklist: on a 10,000-taxon checklist it keeps the 95th percentile well
+ * under 8 ms on the 2-core development machine (see "Benchmarks" in DEVELOPERS.md), with room
+ * to spare for every taxon that shares most of its letter groups with the query.
  */
 export const DEFAULT_CANDIDATE_CAP = 300;
 
@@ -68,6 +67,11 @@ interface NameEntry<T> {
   field: MatchedField;
 }
 
+/** A name in fuse.js's index record of a taxon: its text, its place in its list, its length norm. */
+type FuseName = { v: string; i?: number; n: number };
+/** fuse.js's index record of a taxon: its place in the collection, its names by key. */
+type FuseRecord = { i: number; $: Record<number, FuseName | FuseName[]> };
+
 /** Added to fuse.js's score so that every fuzzy hit ranks behind every literal one (those score 0 to 0.003). */
 const FUZZY_FLOOR = 0.01;
 
@@ -80,10 +84,9 @@ const PAIRS_UP_TO = 6;
 
 /**
  * fuse.js goes over a name once for each number of edits it still allows, up to 0.4 × the
- * query's length, so a query's cost is about its candidates times its passes. Queries of eight
- * or nine letters (four passes) get `candidateCap` candidates; shorter queries more, which
- * they need (a few letter pairs are shared by many names), and longer ones fewer, which they
- * can afford (many letter triples tell the close names from the rest).
+ * query's length, so a query's cost is about its candidates times its passes. Queries of up to
+ * nine letters (at most four passes) get `candidateCap` candidates; longer ones proportionally
+ * fewer, which they can afford: many letter triples tell the close names from the rest.
  */
 const PASSES_AT_FULL_CAP = 4;
 
@@ -93,9 +96,10 @@ const PASSES_AT_FULL_CAP = 4;
  * misspelt name still finds its taxon.
  *
  * fuse.js compares the query with every name it is given, so it is given only candidates: the
- * taxa with a name sharing the most letter pairs or triples with the query. fuse.js scores a
- * taxon from its own names alone, and ties keep its order, so each candidate gets the score
- * and place it would get among the whole checklist (the tests check the scores). What the
+ * taxa with a name sharing the most letter pairs or triples with the query, and of those only
+ * the names close enough for fuse.js to match (matchableRecords; that step loses nothing).
+ * fuse.js scores a taxon from its own names alone, and ties keep its order, so each candidate
+ * gets the score and place it would get among the whole checklist (the tests check). What the
  * narrowing can lose is a taxon fuse.js would have matched that is not a candidate, and that
  * can happen: fuse.js allows edits up to 0.4 × the query's length, enough for a slip to leave
  * a name sharing one letter pair with a five-letter query ("shrap" and "sharp" share only
@@ -122,12 +126,20 @@ export function createTaxonIndex<T extends SearchableTaxon>(taxa: readonly T[], 
       : positionOf.get(a.taxon.id)! - positionOf.get(b.taxon.id)!);
   const pairs = gramIndex(names, 2);
   const triples = gramIndex(names, 3);
-  // fuse.js's own record of every taxon (names and their length norms), made once, so that a
-  // query's small fuse.js is assembled from records instead of reading every name again.
+  // fuse.js's own record of every taxon (each name with its length norm), made once, so that a
+  // query's small fuse.js is assembled from records instead of reading every name again. Beside
+  // each name, the text fuse.js compares (lowercased, nothing more), for the screen below.
   const fullIndex = Fuse.createIndex(taxonFuseOptions.keys ?? [], taxa);
-  const records = fullIndex.records;
-  // The names as fuse.js reads them (it lowercases, nothing more), for the screen below.
-  const fuseTextsOf = taxa.map((taxon) => [taxon.scientificName, ...taxon.vernacularNames, ...(taxon.synonyms ?? [])].map((name) => name.toLowerCase()));
+  const fuseNamesOf = fullIndex.records.map((record) =>
+    Object.entries(record.$ ?? {}).flatMap(([key, value]) =>
+      (Array.isArray(value) ? value : [value]).map((name: FuseName) => ({
+        key: Number(key),
+        listed: Array.isArray(value),
+        name,
+        text: name.v.toLowerCase(),
+      })),
+    ),
+  );
   // A checklist no longer than the cap has nothing to narrow.
   const wholeFuse = candidateCap >= taxa.length ? new Fuse<SearchableTaxon>(taxa, taxonFuseOptions, fullIndex) : undefined;
 
@@ -173,7 +185,7 @@ export function createTaxonIndex<T extends SearchableTaxon>(taxa: readonly T[], 
 
   function capFor(queryLength: number): number {
     const passes = Math.floor((taxonFuseOptions.threshold ?? 0.6) * queryLength) + 1;
-    return Math.floor((candidateCap * PASSES_AT_FULL_CAP) / passes);
+    return Math.min(candidateCap, Math.floor((candidateCap * PASSES_AT_FULL_CAP) / passes));
   }
 
   /**
@@ -228,31 +240,40 @@ export function createTaxonIndex<T extends SearchableTaxon>(taxa: readonly T[], 
   }
 
   /**
-   * fuse.js matches a name only if some stretch of it is within 0.4 × the query's length edits
-   * of the query, so a candidate none of whose names is that close can go before fuse.js sees
-   * it: its results do not change, and it is spared its slowest work, for a name that does not
-   * match costs it a pass for every edit it allows. fuse.js cuts queries over 32 letters into
-   * pieces and matches on any piece; those are not screened.
+   * fuse.js's records of the candidates, each keeping only the names fuse.js can match. fuse.js
+   * matches a name only if some stretch of it is within 0.4 × the query's length edits of the
+   * query, and scores a taxon by its matching names alone, so leaving out the other names (and
+   * taxa left with none) changes nothing in its results and spares it its slowest work: a name
+   * that does not match costs it a pass for every edit it allows. fuse.js cuts queries over 32
+   * letters into pieces and matches on any piece; those keep every name.
    */
-  function withinThreshold(query: string, chosen: number[]): number[] {
-    if (query.length > MAX_SCREENED_LENGTH) return chosen;
-    const bits = patternBits(query);
-    const allowed = Math.floor((taxonFuseOptions.threshold ?? 0.6) * query.length);
-    return chosen.filter((taxonIndex) => fuseTextsOf[taxonIndex]!.some((text) => fewestEdits(bits, query.length, text) <= allowed));
+  function matchableRecords(query: string, chosen: readonly number[]) {
+    const bits = query.length <= MAX_SCREENED_LENGTH ? patternBits(query) : undefined;
+    const threshold = taxonFuseOptions.threshold ?? 0.6;
+    const docs: SearchableTaxon[] = [];
+    const kept: FuseRecord[] = [];
+    for (const taxonIndex of chosen) {
+      const names: FuseRecord["$"] = {};
+      let any = false;
+      for (const { key, listed, name, text } of fuseNamesOf[taxonIndex]!) {
+        // The same test as fuse.js's: edits per letter of the query at most the threshold.
+        if (bits && fewestEdits(bits, query.length, text) / query.length > threshold) continue;
+        if (listed) ((names[key] ??= []) as FuseName[]).push(name);
+        else names[key] = name;
+        any = true;
+      }
+      if (any) {
+        kept.push({ i: docs.length, $: names });
+        docs.push(taxa[taxonIndex]!);
+      }
+    }
+    return { docs, records: kept };
   }
 
   function fuseFor(query: string): Fuse<SearchableTaxon> {
     if (wholeFuse) return wholeFuse;
-    const chosen = withinThreshold(query, candidates(query));
-    const subset: FuseIndex<SearchableTaxon> = Fuse.parseIndex({
-      keys: fullIndex.keys,
-      records: chosen.map((taxonIndex, i) => ({ ...records[taxonIndex]!, i })),
-    });
-    return new Fuse<SearchableTaxon>(
-      chosen.map((taxonIndex) => taxa[taxonIndex]!),
-      taxonFuseOptions,
-      subset,
-    );
+    const { docs, records } = matchableRecords(query, candidates(query));
+    return new Fuse<SearchableTaxon>(docs, taxonFuseOptions, Fuse.parseIndex({ keys: fullIndex.keys, records }));
   }
 
   function fuzzyHits(query: string): TaxonHit<T>[] {
@@ -289,10 +310,10 @@ export function createTaxonIndex<T extends SearchableTaxon>(taxa: readonly T[], 
 }
 
 /** Myers' algorithm keeps a column of the edit-distance table in the bits of one 32-bit integer. */
-const MAX_SCREENED_LENGTH = 31;
+export const MAX_SCREENED_LENGTH = 31;
 
 /** For each letter of the pattern, the positions where it occurs, as bits. */
-function patternBits(pattern: string): Map<string, number> {
+export function patternBits(pattern: string): Map<string, number> {
   const bits = new Map<string, number>();
   for (let i = 0; i < pattern.length; i++) bits.set(pattern[i]!, (bits.get(pattern[i]!) ?? 0) | (1 << i));
   return bits;
@@ -305,7 +326,7 @@ function patternBits(pattern: string): Map<string, number> {
  * the text moves one column of the edit-distance table along, held as the vertical steps up
  * (pv) and down (mv) between its cells.
  */
-function fewestEdits(bits: Map<string, number>, length: number, text: string): number {
+export function fewestEdits(bits: Map<string, number>, length: number, text: string): number {
   const last = 1 << (length - 1);
   let pv = (1 << length) - 1;
   let mv = 0;
