@@ -2,8 +2,7 @@ import { z } from "zod";
 import type { Route } from "./+types/taxa-search";
 import { entityManagerContext } from "~/db/orm.server";
 import { jsonError } from "~/http/json.server";
-import { createTaxonIndex, type SearchableTaxon } from "~/taxa/search";
-import { listBeeTaxa, listPlantTaxa } from "~/taxa/taxa.server";
+import { taxonIndexFor } from "~/taxa/search-cache.server";
 
 const searchQuery = z.object({
   q: z.string().trim().min(1, "is required").max(100, "is longer than 100 characters"),
@@ -19,8 +18,7 @@ export async function loader({ request, context }: Route.LoaderArgs) {
   }
   const { q, group, limit } = parsed.data;
   const em = context.get(entityManagerContext);
-  const taxa: SearchableTaxon[] = group === "plants" ? await listPlantTaxa(em) : await listBeeTaxa(em);
-  const hits = createTaxonIndex(taxa).search(q, limit);
+  const hits = (await taxonIndexFor(em, group)).search(q, limit);
   return Response.json({
     query: q,
     group,
