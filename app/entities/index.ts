@@ -11,8 +11,11 @@ import { Site } from "./site.entity.ts";
 import { Visit } from "./visit.entity.ts";
 import { Photo } from "./photo.entity.ts";
 import { Determination } from "./determination.entity.ts";
+import { SeasonWindow } from "./season-window.entity.ts";
+import { FloralCount } from "./floral-count.entity.ts";
+import { ForageCount } from "./forage-count.entity.ts";
 
 /** Every entity the ORM knows; the config, the app and the tests use this one list. */
-export const entities = [PlantTaxon, BeeTaxon, User, Session, ApiToken, AccountToken, OutboxMessage, SignInAttempt, ProgrammeSetting, Site, Visit, Photo, Determination];
+export const entities = [PlantTaxon, BeeTaxon, User, Session, ApiToken, AccountToken, OutboxMessage, SignInAttempt, ProgrammeSetting, Site, Visit, Photo, Determination, SeasonWindow, FloralCount, ForageCount];
 
-export { AccountToken, ApiToken, BeeTaxon, Determination, Photo, Site, Visit, OutboxMessage, PlantTaxon, ProgrammeSetting, Session, SignInAttempt, User };
+export { AccountToken, ApiToken, BeeTaxon, Determination, FloralCount, ForageCount, SeasonWindow, Photo, Site, Visit, OutboxMessage, PlantTaxon, ProgrammeSetting, Session, SignInAttempt, User };

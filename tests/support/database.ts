@@ -1,6 +1,7 @@
 import { MikroORM } from "@mikro-orm/postgresql";
 import { afterAll, beforeAll, beforeEach } from "vitest";
 import config from "../../mikro-orm.config.ts";
+import { DEFAULT_SEASON_WINDOWS } from "../../app/forage/seasons.ts";
 
 /**
  * The real PostgreSQL test database (VISITWORT_DB=test, migrated by npm test). Each test file
@@ -11,12 +12,18 @@ export async function openTestOrm(): Promise<MikroORM> {
   return MikroORM.init({ ...config, debug: false });
 }
 
-/** Empties every table, restarting ids, in one statement. */
+/**
+ * Empties every table, restarting ids, in one statement, then puts back the default season
+ * windows, which the migration wrote and the rollup trigger needs, as a fresh database has them.
+ */
 export async function emptyAllTables(orm: MikroORM) {
   const tables = Object.values(orm.getMetadata().getAll())
     .filter((meta) => !meta.abstract && !meta.embeddable && meta.tableName)
     .map((meta) => `"${meta.tableName}"`);
-  await orm.em.getConnection().execute(`TRUNCATE ${tables.join(", ")} RESTART IDENTITY CASCADE`);
+  const connection = orm.em.getConnection();
+  await connection.execute(`TRUNCATE ${tables.join(", ")} RESTART IDENTITY CASCADE`);
+  const values = DEFAULT_SEASON_WINDOWS.map((w) => `('${w.band}', '${w.name}', '${w.start}', '${w.end}', now())`).join(", ");
+  await connection.execute(`INSERT INTO season_window (band, name, start, "end", updated_at) VALUES ${values}`);
 }
 
 /**
