@@ -17,6 +17,13 @@ ensure_dependencies() {
 }
 
 # The database for one target (app, test, e2e): cluster up, migrations, checklists.
+# The benchmarks' own database: schema only; the benches load their synthetic data themselves.
+prepare_bench_database() {
+  step "Preparing the bench database"
+  npx tsx scripts/db.ts up bench
+  VISITWORT_DB=bench npx tsx scripts/migrate.ts
+}
+
 prepare_database() {
   local target=$1
   step "Preparing the $target database"

@@ -8,6 +8,7 @@ import { seedChecklists } from "../app/db/seed.server.ts";
 import { seedDemoAccounts } from "../app/db/demo-seed.server.ts";
 import { ChecklistError } from "../app/taxa/checklist-import.server.ts";
 import { seedDemoVisits } from "./demo/visits.ts";
+import { seedDemoFloralCounts } from "./demo/floral-counts.ts";
 import { putPhotoBytes, storageStatus } from "../app/storage/s3.server.ts";
 import { makeJpegWithExif } from "../tests/support/photos.ts";
 
@@ -32,6 +33,8 @@ try {
       `· demo programme: ${accounts} new demo accounts, ${visits.visits} new visits at ${visits.sites} sites, ${visits.photos} photos` +
         (visits.photos && !storage.ok ? " (photo files not stored: photo storage is not running)" : ""),
     );
+    const flowers = await seedDemoFloralCounts(orm.em.fork());
+    console.log(`· demo floral counts: ${flowers.surveys} new surveys, ${flowers.counts} new counts`);
   }
 } catch (error) {
   if (error instanceof ChecklistError) {

@@ -7,6 +7,7 @@ ensure_dependencies
 bash scripts/ensure-chromium.sh
 prepare_database test
 prepare_database e2e
+prepare_bench_database
 step "Typecheck"
 npm run --silent typecheck
 step "Building the app for the browser tests"

@@ -5,19 +5,22 @@ import path from "node:path";
  * Which database a process talks to. `app` holds people's records; `test` is emptied by the
  * integration tests; `e2e` is served to the browser tests. Each can be pointed elsewhere with
  * its own environment variable (a managed PostgreSQL when a deployment outgrows one machine).
+ * `bench` holds the benchmarks' synthetic million visits, apart from everything else.
  */
-export type DatabaseTarget = "app" | "test" | "e2e";
+export type DatabaseTarget = "app" | "test" | "e2e" | "bench";
 
 export const DATABASE_NAMES: Record<DatabaseTarget, string> = {
   app: "visitwort",
   test: "visitwort_test",
   e2e: "visitwort_e2e",
+  bench: "visitwort_bench",
 };
 
 export const DATABASE_URL_VARIABLES: Record<DatabaseTarget, string> = {
   app: "DATABASE_URL",
   test: "TEST_DATABASE_URL",
   e2e: "E2E_DATABASE_URL",
+  bench: "BENCH_DATABASE_URL",
 };
 
 /** What `scripts/db.ts` remembers about the project-local cluster (git-ignored). */
@@ -39,10 +42,10 @@ export function readClusterState(): LocalClusterState | null {
 
 export function databaseTarget(): DatabaseTarget {
   const target = process.env.VISITWORT_DB ?? "app";
-  if (target !== "app" && target !== "test" && target !== "e2e") {
-    throw new Error(`VISITWORT_DB must be app, test or e2e (got "${target}")`);
+  if (!(target in DATABASE_NAMES)) {
+    throw new Error(`VISITWORT_DB must be ${Object.keys(DATABASE_NAMES).join(", ")} (got "${target}")`);
   }
-  return target;
+  return target as DatabaseTarget;
 }
 
 export function databaseUrl(target: DatabaseTarget = databaseTarget()): string {

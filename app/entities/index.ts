@@ -14,8 +14,10 @@ import { Determination } from "./determination.entity.ts";
 import { SeasonWindow } from "./season-window.entity.ts";
 import { FloralCount } from "./floral-count.entity.ts";
 import { ForageCount } from "./forage-count.entity.ts";
+import { ForageMonthCount } from "./forage-month-count.entity.ts";
+import { ForageBandMonthCount } from "./forage-band-month-count.entity.ts";
 
 /** Every entity the ORM knows; the config, the app and the tests use this one list. */
-export const entities = [PlantTaxon, BeeTaxon, User, Session, ApiToken, AccountToken, OutboxMessage, SignInAttempt, ProgrammeSetting, Site, Visit, Photo, Determination, SeasonWindow, FloralCount, ForageCount];
+export const entities = [PlantTaxon, BeeTaxon, User, Session, ApiToken, AccountToken, OutboxMessage, SignInAttempt, ProgrammeSetting, Site, Visit, Photo, Determination, SeasonWindow, FloralCount, ForageCount, ForageMonthCount, ForageBandMonthCount];
 
-export { AccountToken, ApiToken, BeeTaxon, Determination, FloralCount, ForageCount, SeasonWindow, Photo, Site, Visit, OutboxMessage, PlantTaxon, ProgrammeSetting, Session, SignInAttempt, User };
+export { AccountToken, ApiToken, BeeTaxon, Determination, FloralCount, ForageBandMonthCount, ForageCount, ForageMonthCount, SeasonWindow, Photo, Site, Visit, OutboxMessage, PlantTaxon, ProgrammeSetting, Session, SignInAttempt, User };

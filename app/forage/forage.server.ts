@@ -1,6 +1,7 @@
-// Feeds the forage computations from PostgreSQL. Every figure is read from the rollup
-// `forage_count` (kept by triggers on `visit`), never from raw visits; the statistics are the
-// pure functions beside this module.
+// Feeds the forage computations from PostgreSQL. Every figure is read from the rollups kept by
+// triggers on `visit`, never from raw visits: `forage_count` (with site and recorder, for the
+// ranking's distinct counts), `forage_month_count` (without them, for the matrix) and
+// `forage_band_month_count` (caste, band, year and month only, for the calendar). The statistics are the pure functions beside this module.
 
 import type { EntityManager } from "@mikro-orm/postgresql";
 import { BeeTaxon, PlantTaxon } from "../entities/index.ts";
@@ -72,7 +73,7 @@ export async function forageMatrix(em: EntityManager, query: MatrixQuery): Promi
   const where = whereOf({ ...query, beeId });
   const rows = await em.getConnection().execute<{ bee: number; plant: number; month: number; visits: number }[]>(
     `select bee_taxon_id as bee, plant_taxon_id as plant, month, sum(visits)::int as visits
-     from forage_count ${where.sql} group by bee_taxon_id, plant_taxon_id, month`,
+     from forage_month_count ${where.sql} group by bee_taxon_id, plant_taxon_id, month`,
     where.params,
   );
   const beeNames = await namesOf(em, "bee_taxon", rows.map((r) => r.bee));
@@ -246,7 +247,7 @@ export interface SeasonCalendar {
 export async function seasonCalendar(em: EntityManager, query: SeasonQuery): Promise<SeasonCalendar> {
   const where = whereOf({ band: "all", from: query.from, to: query.to, determination: query.determination });
   const rows = await em.getConnection().execute<{ band: Band; month: number; caste: Caste; visits: number }[]>(
-    `select band, month, caste, sum(visits)::int as visits from forage_count ${where.sql} group by band, month, caste`,
+    `select band, month, caste, sum(visits)::int as visits from forage_band_month_count ${where.sql} group by band, month, caste`,
     where.params,
   );
   const windows = await listSeasonWindows(em);

@@ -111,7 +111,8 @@ export const seasonWindowsSchema = z.array(seasonWindowSchema).superRefine((wind
       const count = windows.filter((w) => w.band === band && w.name === name).length;
       if (count !== 1) ctx.addIssue({ code: "custom", message: `${band} band needs exactly one ${name} window`, path: [] });
     }
-    const ofBand = windows.filter((w) => w.band === band);
+    // A window with an unreadable date has its own message from seasonWindowSchema already.
+    const ofBand = windows.filter((w) => w.band === band && monthDayNumber(w.start) !== null && monthDayNumber(w.end) !== null);
     for (let i = 0; i < ofBand.length; i++) {
       for (let j = i + 1; j < ofBand.length; j++) {
         const a = ofBand[i]!;

@@ -5,6 +5,7 @@
  */
 import os from "node:os";
 import { pickerBench } from "./picker.ts";
+import { forageBench } from "../bench-forage.ts";
 
 export type BenchSize = "full" | "smoke";
 
@@ -20,7 +21,7 @@ export interface Bench {
   run(size: BenchSize): BenchOutcome | Promise<BenchOutcome>;
 }
 
-const benches: Bench[] = [pickerBench];
+const benches: Bench[] = [pickerBench, forageBench];
 
 const size: BenchSize = process.argv.includes("--smoke") ? "smoke" : "full";
 // Latencies mean little without the machine and what else was running on it.

@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { reportPickerBench, runPickerBench } from "../../scripts/bench/picker.ts";
+import { reportForageBench, runForageBench } from "../../scripts/bench-forage.ts";
 
 // The benchmarks' small runs: they prove the bench code still runs and reports, not that
 // anything is fast (the suite shares the machine with the database and the browser tests).
@@ -28,4 +29,21 @@ describe("benchmark smoke runs", () => {
     expect(report.failures).toEqual([]);
     expect(report.lines.join("\n")).toMatch(/p95/);
   });
+
+  it("the forage endpoints and their naive queries report times on a small synthetic load", async () => {
+    const result = await runForageBench("smoke", { migrate: false });
+    expect(result.visits).toBe(20_000);
+    expect(result.rollupRows).toBeGreaterThan(0);
+    // Common practice, no source: a rollup never has more rows than the visits it counts.
+    expect(result.rollupRows).toBeLessThanOrEqual(result.visits);
+    expect(result.cases.map((c) => c.name)).toEqual(expect.arrayContaining([expect.stringMatching(/^ranking/), expect.stringMatching(/^matrix/)]));
+    for (const c of result.cases) {
+      expect(c.oursMs).toBeGreaterThan(0);
+      expect(c.naiveMs).toBeGreaterThan(0);
+      expect(c.ratio).toBeCloseTo(c.oursMs / c.naiveMs, 10);
+    }
+    const report = reportForageBench(result, false);
+    expect(report.failures).toEqual([]);
+    expect(report.lines.join("\n")).toMatch(/ratio/);
+  }, 120_000);
 });

@@ -70,6 +70,23 @@ async function actualRollup(): Promise<string[]> {
   return rows.map((r) => Object.values(r).join("|")).sort();
 }
 
+/** The coarser rollups must always be the finest one summed over the dimensions they drop. */
+async function expectMonthRollupConsistent() {
+  const coarse = await sql<Record<string, unknown>>(
+    `select caste, season, band, evidence, year, month, bee_taxon_id, plant_taxon_id, visits from forage_month_count order by 1, 2, 3, 4, 5, 6, 7, 8`,
+  );
+  const summed = await sql<Record<string, unknown>>(
+    `select caste, season, band, evidence, year, month, bee_taxon_id, plant_taxon_id, sum(visits)::int as visits
+     from forage_count group by 1, 2, 3, 4, 5, 6, 7, 8 order by 1, 2, 3, 4, 5, 6, 7, 8`,
+  );
+  expect(coarse).toEqual(summed);
+  const coarsest = await sql<Record<string, unknown>>(`select caste, band, evidence, year, month, visits from forage_band_month_count order by 1, 2, 3, 4, 5`);
+  const summedAgain = await sql<Record<string, unknown>>(
+    `select caste, band, evidence, year, month, sum(visits)::int as visits from forage_count group by 1, 2, 3, 4, 5 order by 1, 2, 3, 4, 5`,
+  );
+  expect(coarsest).toEqual(summedAgain);
+}
+
 describe("the forage rollup", () => {
   let recorders: CurrentUser[];
   let botanist: CurrentUser;
@@ -116,6 +133,7 @@ describe("the forage rollup", () => {
       ids.push((await createVisit(orm.em.fork(), pick(recorders).id, input, noPhotos)).visit.id);
     }
         expect(await actualRollup()).toEqual(await expectedRollup(DEFAULT_SEASON_WINDOWS));
+    await expectMonthRollupConsistent();
 
     const version = async (id: number) => (await sql<{ version: number }>(`select version from visit where id = ?`, [id]))[0]!.version;
     for (const id of ids.slice(0, 45)) {
@@ -132,6 +150,7 @@ describe("the forage rollup", () => {
       }
     }
     expect(await actualRollup()).toEqual(await expectedRollup(DEFAULT_SEASON_WINDOWS));
+    await expectMonthRollupConsistent();
 
     // Edits that move a visit between cells, and deletions.
     await sql(`update visit set event_local_date = event_local_date + 20 where id in (${ids.slice(40, 50).join(",")})`);
@@ -141,15 +160,19 @@ describe("the forage rollup", () => {
     await sql(`update visit set occurrence_remarks = 'nothing the rollup files by' where id in (${ids.slice(0, 10).join(",")})`);
     await sql(`delete from visit where id in (${ids.filter((_, i) => i % 4 === 0).join(",")})`);
     expect(await actualRollup()).toEqual(await expectedRollup(DEFAULT_SEASON_WINDOWS));
+    await expectMonthRollupConsistent();
 
     // Moving a window boundary refiles every visit.
     const moved = DEFAULT_SEASON_WINDOWS.map((w) => (w.band === "north" && w.name === "early-spring" ? { ...w, start: "04-10" } : w));
     await saveSeasonWindows(orm.em.fork(), moved);
     expect(await listSeasonWindows(orm.em.fork())).toContainEqual({ band: "north", name: "early-spring", start: "04-10", end: "05-31" });
     expect(await actualRollup()).toEqual(await expectedRollup(moved));
+    await expectMonthRollupConsistent();
 
     // No zero rows are left behind.
     expect(await sql(`select * from forage_count where visits <= 0`)).toEqual([]);
+    expect(await sql(`select * from forage_month_count where visits <= 0`)).toEqual([]);
+    expect(await sql(`select * from forage_band_month_count where visits <= 0`)).toEqual([]);
   });
 
   it("refuses overlapping windows and changes nothing", async () => {
