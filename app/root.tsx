@@ -1,6 +1,6 @@
-import { useState } from "react";
+import { useEffect, useRef, useState } from "react";
 import { QueryClient, QueryClientProvider } from "@tanstack/react-query";
-import { Form, isRouteErrorResponse, Links, Meta, NavLink, Outlet, Scripts, ScrollRestoration, useRouteLoaderData } from "react-router";
+import { Form, isRouteErrorResponse, Links, Meta, NavLink, Outlet, Scripts, ScrollRestoration, useLocation, useRouteLoaderData } from "react-router";
 import type { Route } from "./+types/root";
 import { databaseMiddleware } from "./db/orm.server";
 import { currentUserMiddleware } from "./auth/current-user.server";
@@ -33,6 +33,15 @@ export function Layout({ children }: { children: React.ReactNode }) {
   const rootData = useRouteLoaderData<typeof loader>("root");
   const user = rootData?.user ?? null;
   const navigation = navigationFor(user?.roles ?? null);
+  const navRef = useRef<HTMLElement>(null);
+  const { pathname } = useLocation();
+  // On a phone the navigation scrolls sideways: bring the current page's item into view.
+  useEffect(() => {
+    const current = navRef.current?.querySelector<HTMLElement>('[aria-current="page"]');
+    if (current && navRef.current && navRef.current.scrollWidth > navRef.current.clientWidth) {
+      navRef.current.scrollLeft = current.offsetLeft - (navRef.current.clientWidth - current.offsetWidth) / 2;
+    }
+  }, [pathname]);
   return (
     <html lang="en">
       <head>
@@ -53,7 +62,8 @@ export function Layout({ children }: { children: React.ReactNode }) {
               <span className="font-display text-2xl font-semibold tracking-tight">Visitwort</span>
             </a>
             {/* On phones the navigation takes its own row under the name, scrolling sideways if long. */}
-            <nav aria-label="Main" className="order-3 -mx-2 flex w-full items-center gap-1 overflow-x-auto sm:order-2 sm:w-auto sm:flex-1">
+            {/* From tablets up it wraps to a second line rather than hide items. */}
+            <nav ref={navRef} aria-label="Main" className="order-3 -mx-2 flex w-full items-center gap-1 overflow-x-auto sm:order-2 sm:w-auto sm:flex-1 sm:flex-wrap sm:overflow-visible">
               {navigation.map((item) => (
                 <NavLink
                   key={item.to}
@@ -61,7 +71,7 @@ export function Layout({ children }: { children: React.ReactNode }) {
                   // "Visits" must not light up on "Record" (/visits/new) too.
                   end={item.to === "/visits"}
                   className={({ isActive }) =>
-                    `whitespace-nowrap rounded-md px-3 py-2.5 text-[0.95rem] font-medium no-underline ${
+                    `whitespace-nowrap rounded-md px-2.5 py-2.5 text-[0.95rem] font-medium no-underline ${
                       isActive ? "bg-moss text-paper" : "text-ink hover:bg-ink/5"
                     }`
                   }

@@ -27,7 +27,17 @@ export default [
   ]),
   route("photos/:photoId", "routes/visits/photo.ts"),
   route("determinations", "routes/determinations/queue.tsx"),
+  ...prefix("forage", [
+    index("routes/forage/matrix.tsx"),
+    route("ranking", "routes/forage/ranking.tsx"),
+  ]),
+  route("season", "routes/forage/season.tsx"),
+  ...prefix("floral-counts", [
+    index("routes/floral-counts/floral-counts.tsx"),
+    route("new", "routes/floral-counts/new.tsx"),
+  ]),
   route("admin/users", "routes/admin/users.tsx"),
+  route("admin/seasons", "routes/admin/seasons.tsx"),
   route("dev/mail", "routes/dev/mail.tsx"),
   ...prefix("api", [
     route("taxa", "routes/api/taxa.ts"),
@@ -37,6 +47,9 @@ export default [
     route("visits/:id", "routes/api/visit.ts"),
     route("visits/:id/determinations", "routes/api/visit-determinations.ts"),
     route("photos/uploads", "routes/api/photo-uploads.ts"),
+    route("forage/matrix", "routes/api/forage-matrix.ts"),
+    route("forage/ranking", "routes/api/forage-ranking.ts"),
+    route("forage/season", "routes/api/forage-season.ts"),
   ]),
   route("*", "routes/not-found.tsx"),
 ] satisfies RouteConfig;

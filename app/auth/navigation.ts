@@ -12,8 +12,12 @@ export const NAVIGATION: NavigationItem[] = [
   { to: "/visits/new", label: "Record", audience: ["recorder"] },
   { to: "/visits", label: "Visits", audience: ["recorder"] },
   { to: "/determinations", label: "Determine", audience: ["botanist", "bee_verifier"] },
+  { to: "/forage/ranking", label: "Forage", audience: "signed-in" },
+  { to: "/season", label: "Season", audience: "signed-in" },
+  { to: "/floral-counts", label: "Flower counts", audience: ["recorder", "botanist"] },
   { to: "/checklist", label: "Checklist", audience: "anyone" },
   { to: "/admin/users", label: "People", audience: ["coordinator"] },
+  { to: "/admin/seasons", label: "Seasons", audience: ["coordinator"] },
   { to: "/cautions", label: "Cautions", audience: "anyone" },
 ];
 
