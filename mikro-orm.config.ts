@@ -26,5 +26,13 @@ export default defineConfig({
   // Entities are defined with defineEntity: no reflection, no decorators.
   discovery: { warnWhenNoEntities: true },
   debug: process.env.VISITWORT_SQL_DEBUG === "1",
-  pool: { min: 0, max: 10 },
+  pool: {
+    min: 0,
+    max: 10,
+    // The forage rollups' aggregates sort some 100,000 rows; PostgreSQL's default 4 MB of sort
+    // memory sends that to disk. Per connection, so it holds on any server the app is pointed at.
+    afterCreate(connection: { query(sql: string, done: (error?: Error) => void): void }, done: (error: Error | undefined, connection: unknown) => void) {
+      connection.query("SET work_mem = '32MB'", (error) => done(error, connection));
+    },
+  },
 });

@@ -39,7 +39,8 @@ interface Case {
 // into the naive query as plain date arithmetic, as someone without the rollup would.
 const monthDay = "(extract(month from v.event_local_date)::int * 100 + extract(day from v.event_local_date)::int)";
 const verified = "v.plant_status in ('confirmed', 'corrected') and v.bee_status in ('confirmed', 'corrected')";
-const siteKey = "case when v.site_id is not null then 's' || v.site_id else 'g' || floor(v.decimal_latitude * 100)::bigint || ':' || floor(v.decimal_longitude * 100)::bigint end";
+// The same integer site key as the rollup's, so both sides count distinct sites alike.
+const siteKey = "forage_site_key(v.site_id, v.decimal_latitude, v.decimal_longitude)";
 
 function cases(window: { north: [number, number]; south: [number, number] }): Case[] {
   const inWindow = (band: "north" | "south") =>

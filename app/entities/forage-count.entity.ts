@@ -28,8 +28,9 @@ export const ForageCount = defineEntity({
     month: p.smallint(),
     beeTaxonId: p.integer(),
     plantTaxonId: p.integer().index(),
-    // "s<site id>", or "g<lat cell>:<lon cell>" for the 0.01° grid cell of a visit without a site.
-    siteKey: p.string().length(24),
+    // The site's id, or for a visit without a site its 0.01° grid cell as a negative number
+    // (see forage_site_key): an integer, because counting distinct sites sorts this column.
+    siteKey: p.bigint(),
     recorderId: p.integer(),
     visits: p.integer(),
   },

@@ -9,7 +9,9 @@ export const ForageMonthCount = defineEntity({
   name: "ForageMonthCount",
   tableName: "forage_month_count",
   uniques: [
-    { name: "forage_month_count_key", properties: ["caste", "season", "band", "evidence", "year", "month", "beeTaxonId", "plantTaxonId"] },
+    // Band and evidence lead after caste: the matrix filters by them, and rows are written in
+    // this order, so a caste × band × evidence slice lies together on disk.
+    { name: "forage_month_count_key", properties: ["caste", "band", "evidence", "season", "year", "month", "beeTaxonId", "plantTaxonId"] },
   ],
   properties: {
     id: p.bigint().primary().autoincrement(),

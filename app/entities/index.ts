@@ -16,8 +16,9 @@ import { FloralCount } from "./floral-count.entity.ts";
 import { ForageCount } from "./forage-count.entity.ts";
 import { ForageMonthCount } from "./forage-month-count.entity.ts";
 import { ForageBandMonthCount } from "./forage-band-month-count.entity.ts";
+import { ForagePresence } from "./forage-presence.entity.ts";
 
 /** Every entity the ORM knows; the config, the app and the tests use this one list. */
-export const entities = [PlantTaxon, BeeTaxon, User, Session, ApiToken, AccountToken, OutboxMessage, SignInAttempt, ProgrammeSetting, Site, Visit, Photo, Determination, SeasonWindow, FloralCount, ForageCount, ForageMonthCount, ForageBandMonthCount];
+export const entities = [PlantTaxon, BeeTaxon, User, Session, ApiToken, AccountToken, OutboxMessage, SignInAttempt, ProgrammeSetting, Site, Visit, Photo, Determination, SeasonWindow, FloralCount, ForageCount, ForageMonthCount, ForageBandMonthCount, ForagePresence];
 
-export { AccountToken, ApiToken, BeeTaxon, Determination, FloralCount, ForageBandMonthCount, ForageCount, ForageMonthCount, SeasonWindow, Photo, Site, Visit, OutboxMessage, PlantTaxon, ProgrammeSetting, Session, SignInAttempt, User };
+export { AccountToken, ApiToken, BeeTaxon, Determination, FloralCount, ForageBandMonthCount, ForageCount, ForageMonthCount, ForagePresence, SeasonWindow, Photo, Site, Visit, OutboxMessage, PlantTaxon, ProgrammeSetting, Session, SignInAttempt, User };

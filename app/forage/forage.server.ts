@@ -1,7 +1,8 @@
 // Feeds the forage computations from PostgreSQL. Every figure is read from the rollups kept by
 // triggers on `visit`, never from raw visits: `forage_count` (with site and recorder, for the
-// ranking's distinct counts), `forage_month_count` (without them, for the matrix) and
-// `forage_band_month_count` (caste, band, year and month only, for the calendar). The statistics are the pure functions beside this module.
+// ranking's distinct counts), `forage_presence` (the same without bee and month, for rankings
+// of all bumble bees over a window), `forage_month_count` (without site and recorder, for the
+// matrix) and `forage_band_month_count` (caste, band, year and month only, for the calendar). The statistics are the pure functions beside this module.
 
 import type { EntityManager } from "@mikro-orm/postgresql";
 import { BeeTaxon, PlantTaxon } from "../entities/index.ts";
@@ -47,6 +48,14 @@ function whereOf(filters: Filters): { sql: string; params: unknown[] } {
   if (filters.months) (clauses.push(`month in (${placeholders(filters.months)})`), params.push(...filters.months));
   if (filters.beeId !== undefined) (clauses.push("bee_taxon_id = ?"), params.push(filters.beeId));
   return { sql: clauses.length ? `where ${clauses.join(" and ")}` : "", params };
+}
+
+/**
+ * Which rollup answers a ranking: without a bee or months, forage_presence (no bee, no month,
+ * about half the rows); otherwise forage_count, which has both.
+ */
+function rankingTableFor(filters: Filters): "forage_presence" | "forage_count" {
+  return filters.beeId === undefined && filters.months === undefined ? "forage_presence" : "forage_count";
 }
 
 /** The bee's id in the rollup: 0 for "Bombus sp.", undefined for all bumble bees. */
@@ -146,7 +155,7 @@ export async function forageRanking(em: EntityManager, query: RankingQuery): Pro
   const rows = await em.getConnection().execute<{ plant: number; visits: number; sites: number; years: number; recorders: number }[]>(
     `select plant_taxon_id as plant, sum(visits)::int as visits, count(distinct site_key)::int as sites,
             count(distinct year)::int as years, count(distinct recorder_id)::int as recorders
-     from forage_count ${where.sql} group by plant_taxon_id`,
+     from ${rankingTableFor(filters)} ${where.sql} group by plant_taxon_id`,
     where.params,
   );
   const plants = new Map(
@@ -213,10 +222,11 @@ async function selectionAgainstFlowers(em: EntityManager, filters: Filters) {
   const units = new Map<number, number>();
   for (const row of flowers) if (row.units > 0) units.set(row.plant, (units.get(row.plant) ?? 0) + row.units);
   if (units.size < 2) return result;
-  const siteKeys = [...new Set(flowers.map((row) => `s${row.site}`))];
+  // A site's rollup key is its id (forage_site_key).
+  const siteKeys = [...new Set(flowers.map((row) => row.site))];
   const where = whereOf(filters);
   const used = await em.getConnection().execute<{ plant: number; visits: number }[]>(
-    `select plant_taxon_id as plant, sum(visits)::int as visits from forage_count
+    `select plant_taxon_id as plant, sum(visits)::int as visits from ${rankingTableFor(filters)}
      ${where.sql ? `${where.sql} and` : "where"} site_key in (${placeholders(siteKeys)}) and plant_taxon_id in (${placeholders([...units.keys()])})
      group by plant_taxon_id`,
     [...where.params, ...siteKeys, ...units.keys()],

@@ -56,7 +56,8 @@ async function expectedRollup(windows: readonly SeasonWindow[]): Promise<string[
     const evidence = verified(v.plant_status) && verified(v.bee_status) ? "confirmed" : "proposed";
     const band = bandOf(v.decimal_latitude);
     const season = seasonOf(v.local_date, band, windows) ?? "";
-    const site = v.site_id !== null ? `s${v.site_id}` : `g${Math.floor(v.decimal_latitude * 100)}:${Math.floor(v.decimal_longitude * 100)}`;
+    // A site by its id; a visit without one by its 0.01° grid cell, numbered below zero.
+    const site = v.site_id !== null ? v.site_id : -((Math.floor(v.decimal_latitude * 100) + 9001) * 40000 + (Math.floor(v.decimal_longitude * 100) + 18001));
     const key = [v.caste, season, band, evidence, Number(v.local_date.slice(0, 4)), Number(v.local_date.slice(5, 7)), v.bee_taxon_id ?? 0, v.plant_taxon_id, site, v.recorder_id].join("|");
     counts.set(key, (counts.get(key) ?? 0) + 1);
   }
@@ -85,6 +86,14 @@ async function expectMonthRollupConsistent() {
     `select caste, band, evidence, year, month, sum(visits)::int as visits from forage_count group by 1, 2, 3, 4, 5 order by 1, 2, 3, 4, 5`,
   );
   expect(coarsest).toEqual(summedAgain);
+  const presence = await sql<Record<string, unknown>>(
+    `select caste, season, band, evidence, year, plant_taxon_id, site_key, recorder_id, visits from forage_presence order by 1, 2, 3, 4, 5, 6, 7, 8`,
+  );
+  const summedOverBeeAndMonth = await sql<Record<string, unknown>>(
+    `select caste, season, band, evidence, year, plant_taxon_id, site_key, recorder_id, sum(visits)::int as visits
+     from forage_count group by 1, 2, 3, 4, 5, 6, 7, 8 order by 1, 2, 3, 4, 5, 6, 7, 8`,
+  );
+  expect(presence).toEqual(summedOverBeeAndMonth);
 }
 
 describe("the forage rollup", () => {
@@ -173,6 +182,7 @@ describe("the forage rollup", () => {
     expect(await sql(`select * from forage_count where visits <= 0`)).toEqual([]);
     expect(await sql(`select * from forage_month_count where visits <= 0`)).toEqual([]);
     expect(await sql(`select * from forage_band_month_count where visits <= 0`)).toEqual([]);
+    expect(await sql(`select * from forage_presence where visits <= 0`)).toEqual([]);
   });
 
   it("refuses overlapping windows and changes nothing", async () => {
