@@ -17,8 +17,11 @@ import { ForageCount } from "./forage-count.entity.ts";
 import { ForageMonthCount } from "./forage-month-count.entity.ts";
 import { ForageBandMonthCount } from "./forage-band-month-count.entity.ts";
 import { ForagePresence } from "./forage-presence.entity.ts";
+import { PlantingList } from "./planting-list.entity.ts";
+import { PlantingListItem } from "./planting-list-item.entity.ts";
+import { StockItem } from "./stock-item.entity.ts";
 
 /** Every entity the ORM knows; the config, the app and the tests use this one list. */
-export const entities = [PlantTaxon, BeeTaxon, User, Session, ApiToken, AccountToken, OutboxMessage, SignInAttempt, ProgrammeSetting, Site, Visit, Photo, Determination, SeasonWindow, FloralCount, ForageCount, ForageMonthCount, ForageBandMonthCount, ForagePresence];
+export const entities = [PlantTaxon, BeeTaxon, User, Session, ApiToken, AccountToken, OutboxMessage, SignInAttempt, ProgrammeSetting, Site, Visit, Photo, Determination, SeasonWindow, FloralCount, ForageCount, ForageMonthCount, ForageBandMonthCount, ForagePresence, PlantingList, PlantingListItem, StockItem];
 
-export { AccountToken, ApiToken, BeeTaxon, Determination, FloralCount, ForageBandMonthCount, ForageCount, ForageMonthCount, ForagePresence, SeasonWindow, Photo, Site, Visit, OutboxMessage, PlantTaxon, ProgrammeSetting, Session, SignInAttempt, User };
+export { AccountToken, ApiToken, BeeTaxon, Determination, FloralCount, ForageBandMonthCount, ForageCount, ForageMonthCount, ForagePresence, PlantingList, PlantingListItem, SeasonWindow, StockItem, Photo, Site, Visit, OutboxMessage, PlantTaxon, ProgrammeSetting, Session, SignInAttempt, User };

@@ -226,6 +226,7 @@ export async function mergePlantTaxa(
       [keepId, duplicateId],
       "run",
     );
+    await moveOtherReferences(tx, duplicateId, keepId);
     tx.remove(duplicate);
     await tx.flush();
     return {
@@ -236,6 +237,27 @@ export async function mergePlantTaxa(
       determinationsMoved: determinations.affectedRows,
     };
   });
+}
+
+/**
+ * Flower counts, nursery stock and planting lists that name the duplicate name the kept taxon.
+ * Where both taxa already have a row under the same key, the rows become one: flower counts of
+ * the same site and day add up (the same plant counted under two names), and the kept taxon's
+ * stock entry and list place stay.
+ */
+async function moveOtherReferences(tx: EntityManager, duplicateId: number, keepId: number) {
+  const run = (sql: string) => tx.execute(sql, [duplicateId, keepId], "run");
+  await run(`UPDATE floral_count k SET flowering_units = k.flowering_units + d.flowering_units, updated_at = now()
+             FROM floral_count d WHERE d.plant_taxon_id = ? AND k.plant_taxon_id = ? AND k.site_id = d.site_id AND k.survey_date = d.survey_date`);
+  await run(`DELETE FROM floral_count d USING floral_count k
+             WHERE d.plant_taxon_id = ? AND k.plant_taxon_id = ? AND k.site_id = d.site_id AND k.survey_date = d.survey_date`);
+  await run(`DELETE FROM stock_item d USING stock_item k
+             WHERE d.plant_taxon_id = ? AND k.plant_taxon_id = ? AND k.nursery_id = d.nursery_id AND k.form = d.form`);
+  await run(`DELETE FROM planting_list_item d USING planting_list_item k
+             WHERE d.plant_taxon_id = ? AND k.plant_taxon_id = ? AND k.list_id = d.list_id`);
+  for (const table of ["floral_count", "stock_item", "planting_list_item"]) {
+    await tx.execute(`UPDATE ${table} SET plant_taxon_id = ? WHERE plant_taxon_id = ?`, [keepId, duplicateId], "run");
+  }
 }
 
 /** RFC 4180 §2.6–2.7: a field with a comma, quote, CR or LF is quoted, and its quotes doubled. */

@@ -3,7 +3,7 @@ import { readFileSync } from "node:fs";
 import { beforeEach, describe, expect, it } from "vitest";
 import { createUser } from "~/auth/accounts.server";
 import { DEFAULT_CHECKLIST_FILES, seedChecklists } from "~/db/seed.server";
-import { BeeTaxon, Determination, PlantTaxon, User, Visit } from "~/entities";
+import { BeeTaxon, Determination, PlantTaxon, Site, User, Visit } from "~/entities";
 import type { PlantChecklistRow } from "~/taxa/checklist-schema";
 import {
   applyChecklistImport,
@@ -233,6 +233,40 @@ describe("merging a duplicate taxon", () => {
     const kept = await orm.em.fork().findOneOrFail(PlantTaxon, { id: keepId });
     expect(kept.synonyms).toEqual([...keptBefore.synonyms, "Salix fictidiscolor", "Salix fictiglauca"]);
     expect(kept.vernacularNames).toEqual([...keptBefore.vernacularNames, "silver catkin willow"]);
+  });
+
+  it("moves flower counts, nursery stock and planting-list places too, joining rows that meet", async () => {
+    const { botanist, recorder, duplicateId, keepId } = await setUp();
+    const em = orm.em.fork();
+    const site = em.create(Site, { name: "Merge test meadow", decimalLatitude: 42.5, decimalLongitude: -89.4 });
+    await em.flush();
+    const count = (taxon: number, date: string, units: number) =>
+      sql(`INSERT INTO floral_count (created_at, updated_at, site_id, survey_date, plant_taxon_id, flowering_units, recorded_by_id) VALUES (now(), now(), ?, ?, ?, ?, ?)`, [site.id, date, taxon, units, recorder.id]);
+    await count(keepId, "2025-04-20", 40);
+    await count(duplicateId, "2025-04-20", 15); // the same day: the same plant counted under two names
+    await count(duplicateId, "2025-05-02", 7);
+    const stock = (taxon: number, form: string) =>
+      sql(`INSERT INTO stock_item (created_at, updated_at, nursery_id, plant_taxon_id, form, availability) VALUES (now(), now(), ?, ?, ?, 'now')`, [recorder.id, taxon, form]);
+    await stock(keepId, "plug");
+    await stock(duplicateId, "plug");
+    await stock(duplicateId, "seed");
+    const [list] = await sql<{ id: number }>(
+      `INSERT INTO planting_list (created_at, updated_at, owner_id, name, band, season_start, season_end, min_per_month) VALUES (now(), now(), ?, 'Merge test list', 'north', 4, 9, 3) RETURNING id`,
+      [recorder.id],
+    );
+    await sql(`INSERT INTO planting_list_item (list_id, plant_taxon_id, position) VALUES (?, ?, 1), (?, ?, 2)`, [list!.id, keepId, list!.id, duplicateId]);
+
+    await mergePlantTaxa(orm.em.fork(), { duplicateId, keepId, actingUserId: botanist.id });
+
+    expect(await sql(`SELECT survey_date::text AS day, flowering_units AS units FROM floral_count WHERE plant_taxon_id = ? ORDER BY survey_date`, [keepId])).toEqual([
+      { day: "2025-04-20", units: 55 },
+      { day: "2025-05-02", units: 7 },
+    ]);
+    expect(await sql(`SELECT form FROM stock_item WHERE plant_taxon_id = ? ORDER BY form`, [keepId])).toEqual([{ form: "plug" }, { form: "seed" }]);
+    expect(await sql(`SELECT plant_taxon_id AS taxon, position FROM planting_list_item WHERE list_id = ?`, [list!.id])).toEqual([{ taxon: keepId, position: 1 }]);
+    for (const table of ["floral_count", "stock_item", "planting_list_item"]) {
+      expect(await sql(`SELECT count(*)::int AS count FROM ${table} WHERE plant_taxon_id = ?`, [duplicateId])).toEqual([{ count: 0 }]);
+    }
   });
 
   it("refuses to merge a taxon into itself, changing nothing", async () => {
