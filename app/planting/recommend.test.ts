@@ -146,12 +146,13 @@ describe("earlySpringMonthsOf", () => {
 });
 
 describe("recommendPlanting: hand-computed lists", () => {
-  it("chooses early spring first, then most open places, then evidence (worked by hand)", () => {
+  it("chooses early spring first, then evidence, then bloom length (worked by hand)", () => {
     // Season April–June, 2 per month, early spring April–May. Worked by hand from the rules in
-    // the module header (no outside source):
-    // 1. Every native candidate but E flowers in an open early-spring month; D fills 3 places → D.
-    // 2. April 1, May 1, June 1. B (Apr–May) and C (May–Jun) fill 2 each; C has evidence → C.
-    // 3. April 1, May 2, June 2. A and B fill April only; A has evidence → A. All months have 2.
+    // the module header (no outside source). Standing: E (0.5), A (0.3), C (0.2), then without
+    // evidence D (3 months) before B (2 months).
+    // 1. E opens no early-spring place; A (April) does and stands next → A. April 1.
+    // 2. C opens May → C. April 1, May 1, June 1.
+    // 3. E still opens only June; D opens April and May → D. Every month has 2: done.
     // F (invasive, best evidence) and G (introduced) are never considered: natives only.
     const candidates = [
       plant(1, "Aquilegia canadensis", 4, 4, { wilsonLow: 0.3 }),
@@ -163,8 +164,8 @@ describe("recommendPlanting: hand-computed lists", () => {
       plant(7, "Taraxacum officinale", 4, 6, { wilsonLow: 0.8, regionalStatus: "introduced" }),
     ];
     const result = recommendPlanting(parse({ band: "south", months: "4-6", minPerMonth: 2 }), candidates);
-    expect(names(result)).toEqual(["Dalea purpurea", "Caltha palustris", "Aquilegia canadensis"]);
-    expect(result.species.map((s) => s.monthsCovered)).toEqual([[4, 5, 6], [5, 6], [4]]);
+    expect(names(result)).toEqual(["Aquilegia canadensis", "Caltha palustris", "Dalea purpurea"]);
+    expect(result.species.map((s) => s.monthsCovered)).toEqual([[4], [5, 6], [4, 5, 6]]);
     expect(result.perMonth).toEqual([
       { month: 4, count: 2, met: true },
       { month: 5, count: 2, met: true },
@@ -172,8 +173,8 @@ describe("recommendPlanting: hand-computed lists", () => {
     ]);
     expect(result.unmet).toEqual([]);
     expect(result.earlySpringMonths).toEqual([4, 5]);
-    expect(result.species[0]!.reason).toBe("No early-spring forage records yet; blooms Apr–Jun, when queens emerge");
-    expect(result.species[2]!.reason).toBe("Rank 1 in early-spring forage records (20 visits); blooms in April, when queens emerge");
+    expect(result.species[0]!.reason).toBe("Rank 1 in early-spring forage records (20 visits); blooms in April, when queens emerge");
+    expect(result.species[2]!.reason).toBe("No early-spring forage records yet; blooms Apr–Jun, when queens emerge");
   });
 
   it("drops a species that later picks made unnecessary (worked by hand)", () => {

@@ -24,14 +24,17 @@
 //    woody-edge plants feed them in spring (Mola et al. 2021, BioScience 71:1234–1248, from the
 //    project's reference list, not re-read here). A queen that finds no food founds no colony
 //    (common practice, no source), so when the list size is limited, spring is filled first.
-// 2. Then the number of open month places the species fills, so the list stays short.
-// 3. Then forage evidence from the programme's own records: plants ranked by the Wilson lower
+// 2. Then forage evidence from the programme's own records: plants ranked by the Wilson lower
 //    limit of their share of early-spring visits (~/forage/ranking), higher first, because it
 //    is the share we can be fairly sure of. Plants without records come after those with them;
-//    absence of records is not evidence of poor forage, but we cannot say more.
-// 4. Then bloom length, longer first: a longer bloom reaches into the edges of the months.
-// 5. Then scientific name and id, compared by code units, so the order is the same in every
+//    absence of records is not evidence of poor forage, but we cannot say more. Evidence comes
+//    before how many open months a species fills: a well-supported plant is worth a longer
+//    list, and the second pass drops what later picks made unnecessary.
+// 3. Then bloom length, longer first: a longer bloom reaches into the edges of the months and
+//    fills more of them.
+// 4. Then scientific name and id, compared by code units, so the order is the same in every
 //    locale and does not depend on the order the candidates arrive in.
+// Among species that fill no open place at all, none is picked.
 //
 // Invasive taxa are never recommended, whatever the options: planting them spreads them.
 // Introduced taxa only when the caller lifts `nativeOnly` (the default keeps to natives; the
@@ -335,13 +338,12 @@ export function recommendPlanting<T extends PlantingCandidate>(
     for (const m of candidate.months) count.set(m, count.get(m)! - 1);
   };
 
-  // Preferences 1 and 2 change as the list grows; the pool is sorted by 3–5, so among equals on
-  // 1 and 2 the first one met is the one wanted.
+  // Preference 1 changes as the list grows; the pool is sorted by 2–4, so among equals on 1 the
+  // first one met is the one wanted.
   const fillGreedily = () => {
     while (size === undefined || listed.length < size) {
       let best: Candidate<T> | undefined;
       let bestOpensSpring = false;
-      let bestGain = 0;
       for (const candidate of pool) {
         if (isListed.has(candidate)) continue;
         let gain = 0;
@@ -353,10 +355,9 @@ export function recommendPlanting<T extends PlantingCandidate>(
           }
         }
         if (gain === 0) continue;
-        if (!best || (opensSpring && !bestOpensSpring) || (opensSpring === bestOpensSpring && gain > bestGain)) {
+        if (!best || (opensSpring && !bestOpensSpring)) {
           best = candidate;
           bestOpensSpring = opensSpring;
-          bestGain = gain;
         }
       }
       if (!best) return;
