@@ -1,12 +1,30 @@
 import type { Determination, Photo, Visit } from "../entities/index.ts";
+import { locationFor, type LocationViewer } from "../exchange/generalise.ts";
 import { BEE_NOT_SURE_LABEL } from "./vocabulary.ts";
 
 /**
- * A visit as the JSON API and the visit page show it, with Darwin Core names where the
- * standard has them. `associatedTaxa` uses the term's recommended "relationship":"name" form.
+ * A visit is sensitive when its bee, or any bee it was ever determined as, is flagged sensitive:
+ * a correction away from an endangered species does not make the first report's place public.
  */
-export function toVisitRecord(visit: Visit, photos: Photo[], determinations: Determination[]) {
+export function isSensitiveVisit(visit: Visit, determinations: Determination[]): boolean {
+  return Boolean(visit.beeTaxon?.sensitive) || determinations.some((d) => d.subject === "bee" && d.beeTaxon?.sensitive);
+}
+
+/**
+ * A visit as the JSON API and the visit page show it to this viewer, with Darwin Core names
+ * where the standard has them. `associatedTaxa` uses the term's recommended
+ * "relationship":"name" form. A sensitive visit's place is generalised for everyone but
+ * coordinators and its recorder (app/exchange/generalise.ts), and its site withheld.
+ */
+export function toVisitRecord(visit: Visit, photos: Photo[], determinations: Determination[], viewer: LocationViewer) {
   const plantName = visit.plantTaxon?.scientificName ?? null;
+  const place = locationFor(viewer, {
+    recorderId: visit.recorder.id,
+    sensitive: isSensitiveVisit(visit, determinations),
+    decimalLatitude: visit.decimalLatitude,
+    decimalLongitude: visit.decimalLongitude,
+    coordinateUncertaintyInMeters: visit.coordinateUncertaintyInMeters ?? null,
+  });
   return {
     id: visit.id,
     occurrenceID: `visitwort:visit:${visit.id}`,
@@ -18,11 +36,13 @@ export function toVisitRecord(visit: Visit, photos: Photo[], determinations: Det
     eventDate: visit.eventDate.toISOString(),
     eventLocalDate: String(visit.eventLocalDate),
     eventTimeZone: visit.eventTimeZone,
-    decimalLatitude: visit.decimalLatitude,
-    decimalLongitude: visit.decimalLongitude,
+    decimalLatitude: place.decimalLatitude,
+    decimalLongitude: place.decimalLongitude,
     geodeticDatum: "EPSG:4326",
-    coordinateUncertaintyInMeters: visit.coordinateUncertaintyInMeters,
-    site: visit.site ? { id: visit.site.id, name: visit.site.name } : null,
+    coordinateUncertaintyInMeters: place.coordinateUncertaintyInMeters,
+    dataGeneralizations: place.dataGeneralizations,
+    informationWithheld: place.generalised && visit.site ? "Site withheld: it would reveal the place of a sensitive species." : null,
+    site: visit.site && !place.generalised ? { id: visit.site.id, name: visit.site.name } : null,
     scientificName: visit.beeTaxon?.scientificName ?? BEE_NOT_SURE_LABEL,
     beeTaxonId: visit.beeTaxon?.id ?? null,
     caste: visit.caste,

@@ -28,13 +28,13 @@ export async function action({ request, params, context }: Route.ActionArgs) {
     if (error.status !== 409) return jsonError(error.status, error.message, error.fields);
     const latest = await findVisitForViewer(em.fork(), user, visitId);
     return Response.json(
-      { error: error.message, visit: latest && latest !== "forbidden" ? toVisitRecord(latest.visit, latest.photos, latest.determinations) : null },
+      { error: error.message, visit: latest && latest !== "forbidden" ? toVisitRecord(latest.visit, latest.photos, latest.determinations, user) : null },
       { status: 409 },
     );
   }
   const found = await findVisitForViewer(em.fork(), user, visitId);
   if (!found || found === "forbidden") return jsonError(404, "No such visit.");
-  return Response.json(toVisitRecord(found.visit, found.photos, found.determinations), { status: 201 });
+  return Response.json(toVisitRecord(found.visit, found.photos, found.determinations, user), { status: 201 });
 }
 
 export function loader({ request, context }: Route.LoaderArgs) {

@@ -13,5 +13,5 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
   const found = await findVisitForViewer(context.get(entityManagerContext), user, id);
   if (!found) return jsonError(404, "No such visit.");
   if (found === "forbidden") return jsonError(403, "This visit is not yours to see.");
-  return Response.json(toVisitRecord(found.visit, found.photos, found.determinations));
+  return Response.json(toVisitRecord(found.visit, found.photos, found.determinations, user));
 }

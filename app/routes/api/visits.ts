@@ -37,7 +37,7 @@ export async function action({ request, context }: Route.ActionArgs) {
     const { visit, created } = await createVisit(em, user.id, parsed.data, photoInspector());
     const found = await findVisitForViewer(em.fork(), user, visit.id);
     if (!found || found === "forbidden") throw new Error("A visit just recorded could not be read back");
-    return Response.json(toVisitRecord(found.visit, found.photos, found.determinations), {
+    return Response.json(toVisitRecord(found.visit, found.photos, found.determinations, user), {
       status: created ? 201 : 200,
       headers: { Location: `/api/visits/${visit.id}` },
     });

@@ -15,7 +15,7 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
   if (!found) throw data("There is no visit with this number.", { status: 404 });
   if (found === "forbidden") throw data("This visit is not yours to see.", { status: 403 });
   return {
-    visit: toVisitRecord(found.visit, found.photos, found.determinations),
+    visit: toVisitRecord(found.visit, found.photos, found.determinations, user),
     justRecorded: new URL(request.url).searchParams.has("recorded"),
   };
 }
@@ -70,6 +70,11 @@ export default function VisitPage({ loaderData }: Route.ComponentProps) {
             {placeInWords(visit.decimalLatitude, visit.decimalLongitude)}
             {visit.coordinateUncertaintyInMeters ? ` (within ${visit.coordinateUncertaintyInMeters} m)` : ""}
             {visit.site ? ` · site ${visit.site.name}` : ""}
+            {visit.dataGeneralizations && (
+              <span className="mt-1 block text-sm text-ink-soft">
+                Shown to the nearest 0.1° grid cell: this bee is a sensitive species, and its exact place is kept for the recorder and the coordinators.
+              </span>
+            )}
           </dd>
           <dt className="font-semibold">Bee</dt>
           <dd>
