@@ -38,6 +38,18 @@ describe("generalising a sensitive record's location", () => {
     }
   });
 
+  it("measures the published haversine example", () => {
+    // Rosetta Code, "Haversine formula": (36.12, −86.67) to (33.94, −118.40) = 2886.4444 km at R = 6371.0 km.
+    expect(haversineMeters(36.12, -86.67, 33.94, -118.4, 6_371_000) / 1000).toBeCloseTo(2886.4444, 3);
+  });
+
+  it("never needs more than the fixed 15,691 m that Chapman & Wieczorek (2020, Table 3) add for 0.1°", () => {
+    for (const lat of [0.02, 23.4, 43.07, 66.5, 89.9]) {
+      const g = generaliseLocation({ decimalLatitude: lat, decimalLongitude: 10.03, coordinateUncertaintyInMeters: 0 });
+      expect(g.coordinateUncertaintyInMeters).toBeLessThanOrEqual(15_691);
+    }
+  });
+
   it("measures distances within 0.6 % of the WGS84 geodesic", () => {
     // Haversine on the mean sphere against Karney's ellipsoidal geodesic (geographiclib).
     for (const [a, b, c, d] of [[43.05, -89.45, 43.1, -89.4], [0.05, 0.05, 0.1, 0.1], [70.05, 20.05, 70.1, 20.1], [-33.95, 151.15, -33.9, 151.2]]) {

@@ -4,9 +4,12 @@
 // Exact coordinates of a bee flagged sensitive go only to coordinators and to the visit's own
 // recorder. Everyone else gets the centre of the 0.1° grid cell the record falls in, with
 // coordinateUncertaintyInMeters enlarged so the circle still holds the true place, and
-// dataGeneralizations saying so — the approach of Chapman & Grafton (2008), "Guide to Best
-// Practices for Generalising Sensitive Species Occurrence Data", GBIF (generalise to a grid,
-// record that and how it was done in dataGeneralizations; from memory).
+// dataGeneralizations saying so. The grid follows Chapman AD (2020), "Current Best Practices for
+// Generalizing Sensitive Species Occurrence Data", GBIF Secretariat, Table 7: 0.1° (about 10 km)
+// for highly sensitive species, with what was done recorded in dataGeneralizations. Chapman &
+// Wieczorek (2020, Table 3) add a fixed 15,691 m for coordinates rounded to 0.1°; we move the
+// point to the cell's centre instead and add the centre-to-corner distance at the cell's own
+// latitude, which always covers the cell and is smaller away from the equator.
 
 /** The grid, in degrees of latitude and longitude. */
 export const GENERALISATION_CELL_DEGREES = 0.1;
@@ -37,11 +40,11 @@ export interface GeneralisedLocation extends Located {
 const toRadians = (degrees: number) => (degrees * Math.PI) / 180;
 
 /** Great-circle distance in metres on the mean sphere (haversine). */
-export function haversineMeters(lat1: number, lon1: number, lat2: number, lon2: number): number {
+export function haversineMeters(lat1: number, lon1: number, lat2: number, lon2: number, radius = EARTH_RADIUS_M): number {
   const dLat = toRadians(lat2 - lat1);
   const dLon = toRadians(lon2 - lon1);
   const h = Math.sin(dLat / 2) ** 2 + Math.cos(toRadians(lat1)) * Math.cos(toRadians(lat2)) * Math.sin(dLon / 2) ** 2;
-  return 2 * EARTH_RADIUS_M * Math.asin(Math.min(1, Math.sqrt(h)));
+  return 2 * radius * Math.asin(Math.min(1, Math.sqrt(h)));
 }
 
 /** Three decimals are enough for a 0.1° grid and keep floating-point noise out of exports. */
