@@ -36,6 +36,23 @@ export default [
     index("routes/floral-counts/floral-counts.tsx"),
     route("new", "routes/floral-counts/new.tsx"),
   ]),
+  ...prefix("planting", [
+    index("routes/planting/planting.tsx"),
+    route("lists/:listId", "routes/planting/list.tsx"),
+    route("lists/:listId/print", "routes/planting/print.tsx"),
+    route("lists/:listId/export.csv", "routes/planting/export.ts"),
+    route("shared/:token", "routes/planting/shared.tsx"),
+  ]),
+  ...prefix("nursery", [
+    index("routes/nursery/nursery.tsx"),
+    route("import", "routes/nursery/import.tsx"),
+    route("stock.csv", "routes/nursery/export.ts"),
+  ]),
+  ...prefix("exchange", [
+    index("routes/exchange/exchange.tsx"),
+    route("occurrences.csv", "routes/exchange/occurrences.ts"),
+    route("archive.zip", "routes/exchange/archive.ts"),
+  ]),
   route("admin/users", "routes/admin/users.tsx"),
   route("admin/seasons", "routes/admin/seasons.tsx"),
   route("dev/mail", "routes/dev/mail.tsx"),
@@ -50,6 +67,9 @@ export default [
     route("forage/matrix", "routes/api/forage-matrix.ts"),
     route("forage/ranking", "routes/api/forage-ranking.ts"),
     route("forage/season", "routes/api/forage-season.ts"),
+    route("planting/recommendation", "routes/api/planting-recommendation.ts"),
+    route("planting/lists/:id", "routes/api/planting-list.ts"),
+    route("nursery/stock", "routes/api/nursery-stock.ts"),
   ]),
   route("*", "routes/not-found.tsx"),
 ] satisfies RouteConfig;

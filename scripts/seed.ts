@@ -9,6 +9,7 @@ import { seedDemoAccounts } from "../app/db/demo-seed.server.ts";
 import { ChecklistError } from "../app/taxa/checklist-import.server.ts";
 import { seedDemoVisits } from "./demo/visits.ts";
 import { seedDemoFloralCounts } from "./demo/floral-counts.ts";
+import { seedDemoStock } from "./demo/stock.ts";
 import { putPhotoBytes, storageStatus } from "../app/storage/s3.server.ts";
 import { makeJpegWithExif } from "../tests/support/photos.ts";
 
@@ -35,6 +36,7 @@ try {
     );
     const flowers = await seedDemoFloralCounts(orm.em.fork());
     console.log(`· demo floral counts: ${flowers.surveys} new surveys, ${flowers.counts} new counts`);
+    console.log(`· demo nursery stock: ${await seedDemoStock(orm.em.fork())} new stock entries`);
   }
 } catch (error) {
   if (error instanceof ChecklistError) {
