@@ -186,7 +186,10 @@ async function suggestionsFor(em: EntityManager, name: string, known: ReadonlyMa
   // guess (the grower may have the species wrong, not the spelling). A few more than shown are
   // asked for: invasive taxa are left out, never suggested as stock.
   const genus = name.split(" ")[0] ?? "";
-  const hits = [...index.search(name, SUGGESTIONS + 5), ...(genus.length >= 3 && genus !== name ? index.search(genus, SUGGESTIONS + 5) : [])];
+  const sameGenus = genus.length >= 3 && genus !== name
+    ? index.search(genus, SUGGESTIONS + 5).filter((hit) => nameKey(hit.taxon.scientificName).startsWith(`${nameKey(genus)} `))
+    : [];
+  const hits = [...index.search(name, SUGGESTIONS + 5), ...sameGenus];
   const seen = new Set<number>();
   const suggestions: PlantSuggestion[] = [];
   for (const { taxon } of hits) {

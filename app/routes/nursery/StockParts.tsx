@@ -46,11 +46,11 @@ const formLower = (form: StockForm) => STOCK_FORM_LABELS[form].toLowerCase();
 /** In the table's own column the header says what is declared; folded into the plant's cell, the badge says it. */
 function Declaration({ declared, short = false }: { declared: boolean; short?: boolean }) {
   return declared ? (
-    <span className="inline-flex items-center gap-1 whitespace-nowrap rounded-md border border-moss bg-moss/10 px-2 py-0.5 text-xs font-semibold text-moss-deep">
+    <span className={`inline-flex items-center gap-1 rounded-md border border-moss bg-moss/10 px-2 py-0.5 text-xs font-semibold text-moss-deep ${short ? "whitespace-nowrap" : ""}`}>
       <span aria-hidden="true">✓</span> {short ? "Declared" : "Insecticide-free declaration"}
     </span>
   ) : (
-    <span className="inline-flex items-center whitespace-nowrap rounded-md border border-ink/30 px-2 py-0.5 text-xs font-medium text-ink-soft">
+    <span className={`inline-flex items-center rounded-md border border-ink/30 px-2 py-0.5 text-xs font-medium text-ink-soft ${short ? "whitespace-nowrap" : ""}`}>
       {short ? "Not declared" : "No insecticide-free declaration"}
     </span>
   );
